@@ -1,0 +1,164 @@
+"""Thresholds and defaults, and where they come from.
+
+Every number a check uses lives in :class:`Settings`. Values can be overridden in a
+``pyproject.toml`` under ``[tool.palettecheck]`` (the nearest one walking up from the
+current folder) and then by command-line options; options win.
+
+References
+----------
+- [Stone2014] Stone, M., Szafir, D. A., Setlur, V. (2014). An engineering model for
+  color difference as a function of size. Proc. IS&T Color and Imaging Conference
+  22, 253-258. Per-axis CIELAB step noticeable by a fraction p of observers for a
+  mark of visual angle s degrees: ND(p, s) = p * (A + B / s), with (A, B) =
+  L (10.16, 1.50), a (10.68, 3.08), b (10.70, 5.74).
+- [WCAG21] SC 1.4.3 / 1.4.6 (text 4.5:1 and 7:1), SC 1.4.11 (graphical objects 3:1).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import os
+from dataclasses import dataclass, fields
+from pathlib import Path
+
+__all__ = ["Settings", "MARK_ANGLE", "noticeable_difference", "mark_threshold", "load_settings", "SettingsError"]
+
+
+class SettingsError(ValueError):
+    """A ``[tool.palettecheck]`` table or option value that cannot be used."""
+
+
+#: Visual angle, in degrees, assumed for each kind of mark: a bar or area fill
+#: about 2 deg, a scatter point about 0.5 deg, a thin line or a text stroke about
+#: 1/3 deg, the smallest size [Stone2014] measured. (Assumed viewing of a desktop
+#: chart at arm's length: common practice, no source.)
+MARK_ANGLE = {"area": 2.0, "point": 0.5, "line": 1 / 3, "text": 1 / 3}
+
+_ND = {"L": (10.16, 1.50), "a": (10.68, 3.08), "b": (10.70, 5.74)}
+
+
+def noticeable_difference(p: float, s: float) -> tuple[float, float, float]:
+    """Per-axis (L*, a*, b*) difference noticed by a fraction ``p`` of observers for
+    a mark of visual angle ``s`` degrees [Stone2014]."""
+    return tuple(p * (a + b / s) for a, b in _ND.values())
+
+
+def mark_threshold(mark: str) -> float:
+    """The 50 %-noticeable difference for a mark, as one ΔE' number.
+
+    The mean of [Stone2014]'s three per-axis steps at p = 0.5. Their model is in
+    CIELAB; applying the mean step to CAM02-UCS ΔE' is our approximation (both
+    spaces were scaled so that one unit is roughly one just-noticeable step).
+    About 6.1 for areas, 8.7 for points, 10.4 for lines and text.
+    """
+    nd = noticeable_difference(0.5, MARK_ANGLE[mark])
+    return sum(nd) / 3.0
+
+
+@dataclass(frozen=True)
+class Settings:
+    """Every default a check uses. Field names are the ``[tool.palettecheck]`` keys."""
+
+    kind: str = "categorical"  #: categorical, sequential or diverging
+    mark: str = "area"  #: area, line, point or text
+    backgrounds: tuple[str, ...] = ("#ffffff",)
+    visions: tuple[str, ...] = ("normal", "protanopia", "deuteranopia", "tritanopia")
+    severity: float = 1.0  #: CVD severity 0-1 (Machado et al. 2009)
+    #: ΔE' below which a pair is an error; None: the mark's 50 %-noticeable step.
+    min_delta_e: float | None = None
+    #: warning below this multiple of the error threshold (common practice, no source)
+    comfort_factor: float = 2.0
+    #: ΔE' under normal vision below which two colours are near-duplicates
+    #: (about two just-noticeable steps; common practice, no source)
+    duplicate_delta_e: float = 2.0
+    graphic_contrast: float = 3.0  #: WCAG SC 1.4.11
+    text_contrast: float = 4.5  #: WCAG SC 1.4.3
+    enhanced_contrast: float = 7.0  #: WCAG SC 1.4.6
+    warn_count: int = 8  #: more categorical colours warn (common practice, no source)
+    max_count: int = 20  #: more is an error (rule of thumb, no source)
+    #: sequential: coefficient of variation of adjacent steps above this warns
+    #: (common practice, no source)
+    step_cv: float = 0.25
+    #: diverging: allowed J' difference between mirrored steps (common practice, no source)
+    symmetry_tolerance: float = 5.0
+    #: grey view: pairs below the error threshold are errors (True) or warnings
+    print_safe: bool = False
+    fail_under: float = 0.0
+
+    @property
+    def error_delta_e(self) -> float:
+        return self.min_delta_e if self.min_delta_e is not None else mark_threshold(self.mark)
+
+    @property
+    def warn_delta_e(self) -> float:
+        return self.error_delta_e * self.comfort_factor
+
+    @property
+    def contrast_needed(self) -> float:
+        return self.text_contrast if self.mark == "text" else self.graphic_contrast
+
+    def validate(self) -> "Settings":
+        from .vision import VISIONS
+
+        if self.kind not in ("categorical", "sequential", "diverging"):
+            raise SettingsError(f"kind must be categorical, sequential or diverging, not {self.kind!r}")
+        if self.mark not in MARK_ANGLE:
+            raise SettingsError(f"mark must be one of {', '.join(MARK_ANGLE)}, not {self.mark!r}")
+        bad = [v for v in self.visions if v not in VISIONS]
+        if bad or not self.visions:
+            raise SettingsError(f"visions must be chosen from {', '.join(VISIONS)}, not {bad or 'none'}")
+        if not 0.0 <= self.severity <= 1.0:
+            raise SettingsError(f"severity must lie in 0-1, not {self.severity}")
+        if not self.backgrounds:
+            raise SettingsError("at least one background is needed")
+        for name in ("comfort_factor", "graphic_contrast", "text_contrast", "enhanced_contrast"):
+            if not getattr(self, name) >= 1.0:
+                raise SettingsError(f"{name} must be at least 1, not {getattr(self, name)}")
+        if self.min_delta_e is not None and not self.min_delta_e > 0:
+            raise SettingsError(f"min_delta_e must be positive, not {self.min_delta_e}")
+        if not 0 <= self.fail_under <= 100:
+            raise SettingsError(f"fail_under must lie in 0-100, not {self.fail_under}")
+        return self
+
+    def updated(self, **changes) -> "Settings":
+        """A copy with the given fields changed (``None`` values are ignored)."""
+        return dataclasses.replace(self, **{k: v for k, v in changes.items() if v is not None}).validate()
+
+
+def find_pyproject(start: Path | None = None) -> Path | None:
+    """The nearest ``pyproject.toml`` at or above ``start`` (default: cwd)."""
+    here = Path(start or os.getcwd()).resolve()
+    for folder in (here, *here.parents):
+        candidate = folder / "pyproject.toml"
+        if candidate.is_file():
+            return candidate
+    return None
+
+
+def load_settings(start: Path | None = None) -> Settings:
+    """Defaults overridden by the nearest ``[tool.palettecheck]`` table."""
+    path = find_pyproject(start)
+    if path is None:
+        return Settings()
+    try:
+        import tomllib
+    except ImportError:  # Python < 3.11
+        import tomli as tomllib
+    try:
+        with open(path, "rb") as f:
+            table = tomllib.load(f).get("tool", {}).get("palettecheck", {})
+    except (OSError, tomllib.TOMLDecodeError) as e:
+        raise SettingsError(f"{path}: {e}") from None
+    known = {f.name: f for f in fields(Settings)}
+    changes = {}
+    for key, value in table.items():
+        name = key.replace("-", "_")
+        if name not in known:
+            raise SettingsError(f"{path}: unknown key [tool.palettecheck] {key}")
+        if name in ("backgrounds", "visions"):
+            value = tuple([value] if isinstance(value, str) else value)
+        changes[name] = value
+    try:
+        return dataclasses.replace(Settings(), **changes).validate()
+    except (SettingsError, TypeError) as e:
+        raise SettingsError(f"{path}: {e}") from None

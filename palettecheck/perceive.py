@@ -1,0 +1,144 @@
+"""Perception layer: sRGB to CAM02-UCS, colour difference, WCAG luminance and contrast.
+
+Arrays follow the ``(..., 3)`` rule: anything array-like is accepted, converted to
+float, channels on the last axis. The numeric scale is in the name: ``srgb255`` is
+0-255, ``srgb1`` is 0-1.
+
+References
+----------
+- [Luo2006] Luo, M. R., Cui, G., Li, C. (2006). Uniform colour spaces based on
+  CIECAM02 colour appearance model. Color Research & Application 31(4), 320-330.
+- [CIE159] CIE 159:2004, A colour appearance model for colour management systems:
+  CIECAM02.
+- [IEC61966] IEC 61966-2-1:1999, sRGB.
+- [WCAG21] W3C Web Content Accessibility Guidelines 2.1/2.2, definitions of
+  "relative luminance" and "contrast ratio".
+
+The conversions themselves are colorspacious's; this module only fixes the viewing
+conditions, caches the converters and keeps every call vectorised.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+import numpy as np
+
+__all__ = [
+    "Viewing",
+    "SRGB_VIEWING",
+    "to_ucs",
+    "from_ucs",
+    "delta_e",
+    "pairwise_delta_e",
+    "srgb1_to_linear",
+    "linear_to_srgb1",
+    "relative_luminance",
+    "contrast_ratio",
+    "in_gamut",
+]
+
+
+@dataclass(frozen=True)
+class Viewing:
+    """CIECAM02 viewing conditions [CIE159]; symbols follow the paper.
+
+    :param XYZ100_w: white point, Y = 100 (a name such as ``"D65"`` or three numbers).
+    :param Y_b: relative luminance of the background, percent.
+    :param L_A: adapting luminance, cd/m².
+    :param surround: ``"average"``, ``"dim"`` or ``"dark"``.
+    """
+
+    XYZ100_w: object = "D65"
+    Y_b: float = 20.0
+    L_A: float = (64 / np.pi) * 0.2
+    surround: str = "average"
+
+
+#: The sRGB reference display: 64 lux ambient, 20 % grey background, average surround
+#: (the defaults of colorspacious and of [Luo2006]'s sRGB use).
+SRGB_VIEWING = Viewing()
+
+
+@lru_cache(maxsize=16)
+def _ucs_space(viewing: Viewing) -> dict:
+    from colorspacious import CIECAM02Space
+    from colorspacious.ciecam02 import CIECAM02Surround
+
+    surround = {
+        "average": CIECAM02Surround.AVERAGE,
+        "dim": CIECAM02Surround.DIM,
+        "dark": CIECAM02Surround.DARK,
+    }[viewing.surround]
+    w = viewing.XYZ100_w
+    space = CIECAM02Space(
+        XYZ100_w=w if isinstance(w, str) else np.asarray(w, dtype=float),
+        Y_b=viewing.Y_b,
+        L_A=viewing.L_A,
+        surround=surround,
+    )
+    return {"name": "CAM02-UCS", "ciecam02_space": space}
+
+
+@lru_cache(maxsize=16)
+def _converter(src: str, viewing: Viewing, forward: bool):
+    from colorspacious import cspace_converter
+
+    ucs = _ucs_space(viewing)
+    return cspace_converter(src, ucs) if forward else cspace_converter(ucs, src)
+
+
+def to_ucs(srgb255, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
+    """CAM02-UCS J'a'b' of sRGB colours on the 0-255 scale, shape ``(..., 3)``."""
+    return _converter("sRGB255", viewing, True)(np.asarray(srgb255, dtype=float))
+
+
+def from_ucs(jab, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
+    """sRGB 0-255 (unclipped, may leave the gamut) of CAM02-UCS J'a'b' values."""
+    return _converter("sRGB255", viewing, False)(np.asarray(jab, dtype=float))
+
+
+def delta_e(jab1, jab2) -> np.ndarray:
+    """ΔE': Euclidean distance in CAM02-UCS (K_L = 1) [Luo2006]."""
+    d = np.asarray(jab1, dtype=float) - np.asarray(jab2, dtype=float)
+    return np.sqrt(np.sum(d * d, axis=-1))
+
+
+def pairwise_delta_e(jab) -> np.ndarray:
+    """Matrix of ΔE' between every pair of an ``(n, 3)`` array: shape ``(n, n)``."""
+    jab = np.asarray(jab, dtype=float)
+    return delta_e(jab[:, None, :], jab[None, :, :])
+
+
+def srgb1_to_linear(srgb1) -> np.ndarray:
+    """sRGB decoding (electro-optical transfer) [IEC61966]."""
+    c = np.asarray(srgb1, dtype=float)
+    return np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
+
+
+def linear_to_srgb1(linear) -> np.ndarray:
+    """sRGB encoding, the inverse of :func:`srgb1_to_linear` [IEC61966]."""
+    c = np.asarray(linear, dtype=float)
+    return np.where(c <= 0.0031308, 12.92 * c, 1.055 * np.abs(c) ** (1 / 2.4) * np.sign(c) - 0.055)
+
+
+_LUMA = np.array([0.2126, 0.7152, 0.0722])
+
+
+def relative_luminance(srgb255) -> np.ndarray:
+    """WCAG relative luminance (0-1) of sRGB 0-255 colours [WCAG21]."""
+    return srgb1_to_linear(np.asarray(srgb255, dtype=float) / 255.0) @ _LUMA
+
+
+def contrast_ratio(srgb255_a, srgb255_b) -> np.ndarray:
+    """WCAG contrast ratio (1-21), symmetric, never rounded [WCAG21]."""
+    la = relative_luminance(srgb255_a)
+    lb = relative_luminance(srgb255_b)
+    return (np.maximum(la, lb) + 0.05) / (np.minimum(la, lb) + 0.05)
+
+
+def in_gamut(srgb255, tol: float = 1e-6) -> np.ndarray:
+    """True where every channel lies in [0, 255] (to ``tol``, in 0-255 units)."""
+    c = np.asarray(srgb255, dtype=float)
+    return np.all((c >= -tol) & (c <= 255 + tol), axis=-1)
