@@ -1,0 +1,157 @@
+"""Command line: parse, call the library, render. Heavy modules load inside commands.
+
+Exit codes: 0 passed, 1 checked and failed, 2 bad input or usage (one line on stderr).
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+
+import click
+
+KINDS = ("categorical", "sequential", "diverging")
+MARKS = ("area", "line", "point", "text")
+
+
+class InputError(click.ClickException):
+    """Bad input: one line on stderr, exit code 2."""
+
+    exit_code = 2
+
+    def show(self, file=None) -> None:
+        click.echo(f"palettecheck: {self.format_message()}", err=True)
+
+
+def settings_from(ctx_options: dict):
+    """Defaults, then ``[tool.palettecheck]``, then the options given (options win)."""
+    from .config import SettingsError, load_settings
+
+    try:
+        settings = load_settings()
+        changes = dict(ctx_options)
+        if changes.get("backgrounds") == ():
+            changes["backgrounds"] = None
+        if changes.get("backgrounds"):
+            changes["backgrounds"] = tuple(_normal_hex(b, "--background") for b in changes["backgrounds"])
+        elif settings.backgrounds:
+            changes["backgrounds"] = tuple(_normal_hex(b, "[tool.palettecheck] backgrounds")
+                                           for b in settings.backgrounds)
+        if changes.get("visions"):
+            changes["visions"] = tuple(dict.fromkeys(("normal", *changes["visions"])))
+        return settings.updated(**changes)
+    except SettingsError as e:
+        raise InputError(str(e)) from None
+
+
+def _normal_hex(text: str, where: str) -> str:
+    from .color import ColorError, parse_color, to_hex
+
+    try:
+        rgb, alpha = parse_color(text)
+    except ColorError as e:
+        raise InputError(f"{where}: {e}") from None
+    if alpha < 1:
+        raise InputError(f"{where}: {text!r} is translucent; a background must be opaque")
+    return to_hex(rgb)
+
+
+def common_options(f):
+    """The options shared by every command that checks a palette."""
+    opts = [
+        click.option("--background", "-b", "backgrounds", multiple=True, metavar="COLOUR",
+                     help="Background the colours sit on (repeatable; default white)."),
+        click.option("--kind", type=click.Choice(KINDS), default=None,
+                     help="Data scale the colours encode (default categorical)."),
+        click.option("--mark", type=click.Choice(MARKS), default=None,
+                     help="Mark size: thin lines and small points need larger differences (default area)."),
+        click.option("--severity", type=click.FloatRange(0, 1), default=None,
+                     help="CVD severity, 0-1 (default 1: dichromacy)."),
+        click.option("--min-delta-e", type=click.FloatRange(min=0, min_open=True), default=None,
+                     help="ΔE' below which a pair is an error (default: set by --mark)."),
+        click.option("--print-safe", is_flag=True, default=None,
+                     help="Treat pairs that merge in grey as errors, not warnings."),
+        click.option("--fail-under", type=click.FloatRange(0, 100), default=None,
+                     help="Fail when the score is below this (default 0)."),
+        click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
+                     help="Output format."),
+        click.option("--output", "-o", type=click.Path(dir_okay=True), default=None,
+                     help="Write the report here (atomically) instead of stdout."),
+    ]
+    for opt in reversed(opts):
+        f = opt(f)
+    return f
+
+
+def _use_color() -> bool:
+    return sys.stdout.isatty() and "NO_COLOR" not in os.environ and os.environ.get("TERM") != "dumb"
+
+
+def emit(text: str, output: str | None, inputs=(), default_name: str = "report") -> None:
+    """Print ``text``, or write it atomically to ``output`` (a file, or a folder)."""
+    if output is None:
+        click.echo(text, nl=False)
+        return
+    from pathlib import Path
+
+    from .report import OutputError, write_atomic
+
+    path = Path(output)
+    if path.is_dir():
+        path = path / default_name
+    try:
+        write_atomic(path, text, inputs)
+    except OutputError as e:
+        raise InputError(str(e)) from None
+    click.echo(f"wrote {path}", err=True)
+
+
+@click.group(context_settings={"help_option_names": ["-h", "--help"]})
+@click.version_option(package_name="palettecheck")
+def cli() -> None:
+    """Check whether a chart's colours can be told apart by every reader."""
+
+
+@cli.command("check")
+@click.argument("sources", nargs=-1, required=True)
+@common_options
+def check_cmd(sources, backgrounds, kind, mark, severity, min_delta_e, print_safe, fail_under, fmt, output):
+    """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name) or a
+    palette file (.txt, .json, .tokens, .css); several SOURCEs make one palette."""
+    from .judge import check_palette
+    from .readers import ReadError, read_sources
+    from .report import render
+
+    settings = settings_from(dict(backgrounds=backgrounds, kind=kind, mark=mark, severity=severity,
+                                  min_delta_e=min_delta_e, print_safe=print_safe, fail_under=fail_under))
+    from .color import parse_color
+
+    try:
+        palette = read_sources(sources, parse_color(settings.backgrounds[0])[0])
+    except ReadError as e:
+        raise InputError(str(e)) from None
+    result = check_palette(palette, settings)
+    stem = os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
+    emit(render(result, fmt, color=_use_color() and output is None), output, sources,
+         f"{stem}-check.{'json' if fmt == 'json' else 'txt'}")
+    sys.exit(0 if result.passed else 1)
+
+
+def main(argv=None) -> None:
+    """Entry point: click's errors become one line on stderr and exit code 2."""
+    try:
+        rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
+    except click.exceptions.Abort:
+        click.echo("palettecheck: aborted", err=True)
+        sys.exit(2)
+    except click.ClickException as e:
+        if isinstance(e, InputError):
+            e.show()
+        else:
+            ctx = getattr(e, "ctx", None)
+            cmd = f" {ctx.command_path.split(' ', 1)[1]}" if ctx and " " in ctx.command_path else ""
+            click.echo(f"palettecheck{cmd}: {e.format_message()} (see --help)", err=True)
+        sys.exit(2)
+    except BrokenPipeError:
+        sys.exit(1)
+    sys.exit(rv if isinstance(rv, int) else 0)
