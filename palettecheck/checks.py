@@ -102,7 +102,10 @@ def _duplicate_pairs(p: Perceived) -> set:
 def check_distinguishable(p: Perceived) -> list[Finding]:
     """Pairs too close under some vision for the mark size."""
     s = p.settings
-    err, warn = s.error_delta_e, s.warn_delta_e
+    err = s.error_delta_e
+    # The comfort margin is for categories read from a legend; ramp neighbours
+    # are read in order, next to each other, and only need to be noticeable.
+    warn = s.warn_delta_e if s.kind == "categorical" else err
     skip = _duplicate_pairs(p)
     out = []
     for i, j in pair_indices(len(p.rgb255), s.kind):
@@ -176,6 +179,27 @@ def check_contrast(p: Perceived) -> list[Finding]:
             "contrast", ERROR,
             f"{_name(p, i)} has contrast {r:.2f}:1 against background {s.backgrounds[k]}; "
             f"{what} need {target:g}:1 ({sc})", (int(i),), _shortfall(r, target)))
+    if s.kind != "categorical":
+        out += _blends_into_background(p)
+    return out
+
+
+def _blends_into_background(p: Perceived) -> list[Finding]:
+    """Ramp steps that cannot be told from a background: such a cell reads as 'no data'."""
+    from .vision import simulate
+
+    s, out = p.settings, []
+    for k, bg in enumerate(p.background_rgb255):
+        low = np.full(len(p.rgb255), np.inf)
+        for v in s.visions:
+            bg_ucs = to_ucs(simulate(bg, v, s.severity))
+            low = np.minimum(low, np.sqrt(np.sum((p.ucs[v] - bg_ucs) ** 2, axis=-1)))
+        for i in np.nonzero(low < s.error_delta_e)[0]:
+            out.append(Finding(
+                "contrast", WARNING,
+                f"{_name(p, int(i))} is barely distinguishable from background {s.backgrounds[k]} "
+                f"(ΔE' {low[i]:.1f}; needs {s.error_delta_e:.1f}): that cell will look empty",
+                (int(i),), _shortfall(float(low[i]), s.error_delta_e)))
     return out
 
 

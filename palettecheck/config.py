@@ -91,7 +91,9 @@ class Settings:
 
     @property
     def warn_delta_e(self) -> float:
-        return self.error_delta_e * self.comfort_factor
+        """The comfort margin is for categories matched through a legend; ramp
+        neighbours are read in order, side by side, and need only be noticeable."""
+        return self.error_delta_e * (self.comfort_factor if self.kind == "categorical" else 1.0)
 
     @property
     def contrast_needed(self) -> float:

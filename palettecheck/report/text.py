@@ -58,7 +58,9 @@ def render_text(result, color: bool = False) -> str:
         f"{result.palette.source or 'palette'}: {len(result.palette)} colour(s), {s.kind}, {s.mark} marks, "
         f"background {', '.join(s.backgrounds)}",
         f"score {sc.value}/100  {verdict}  ({counts['error']} error(s), {counts['warning']} warning(s))",
-        f"thresholds: ΔE' error below {s.error_delta_e:.1f}, warning below {s.warn_delta_e:.1f}; "
+        f"thresholds: ΔE' error below {s.error_delta_e:.1f}"
+        + (f", warning below {s.warn_delta_e:.1f}" if s.kind == "categorical" else " between neighbours")
+        + "; "
         f"contrast {s.contrast_needed:g}:1; visions {', '.join(s.visions)}"
         + (f" at severity {s.severity:g}" if s.severity != 1 else ""),
         "",
