@@ -95,8 +95,12 @@ def to_ucs(srgb255, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
 
 
 def from_ucs(jab, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
-    """sRGB 0-255 (unclipped, may leave the gamut) of CAM02-UCS J'a'b' values."""
-    return _converter("sRGB255", viewing, False)(np.asarray(jab, dtype=float))
+    """sRGB 0-255 (unclipped, may leave the gamut) of CAM02-UCS J'a'b' values.
+
+    Points with no colour behind them (J' <= 0, say) come back as NaN, which
+    :func:`in_gamut` reports as out of gamut."""
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        return _converter("sRGB255", viewing, False)(np.asarray(jab, dtype=float))
 
 
 def delta_e(jab1, jab2) -> np.ndarray:

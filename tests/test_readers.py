@@ -1,0 +1,78 @@
+"""Palette files: text, JSON (list, object, W3C design tokens) and CSS custom properties."""
+
+import json
+
+import pytest
+
+from palettecheck.readers import ReadError, read_source, read_sources
+
+from conftest import PALETTES
+
+
+def test_text_with_names_comments_and_locks(tmp_path):
+    f = tmp_path / "p.txt"
+    f.write_text("# header comment\n#1F6F8B  Harbour teal\nrgb(230, 159, 0) Amber !\n\n"
+                 "Revenue: hsl(200 50% 40%)\n// note\n#abc\n")
+    p = read_source(str(f))
+    assert p.hexes[:2] == ["#1f6f8b", "#e69f00"]
+    assert [s.name for s in p] == ["Harbour teal", "Amber", "Revenue", None]
+    assert [s.locked for s in p] == [False, True, False, False]
+
+
+def test_json_shapes(tmp_path):
+    (tmp_path / "list.json").write_text(json.dumps(["#112233", {"hex": "#445566", "name": "b", "locked": True}]))
+    (tmp_path / "obj.json").write_text(json.dumps({"first": "#112233", "second": "teal"}))
+    a = read_source(str(tmp_path / "list.json"))
+    assert a.hexes == ["#112233", "#445566"] and a[1].locked and a[1].name == "b"
+    b = read_source(str(tmp_path / "obj.json"))
+    assert [s.name for s in b] == ["first", "second"] and b.hexes[1] == "#008080"
+
+
+def test_design_tokens_inherit_type_and_skip_other_types(tmp_path):
+    # W3C Design Tokens Community Group format: $type inherited from groups.
+    tokens = {
+        "brand": {"$type": "color", "sea": {"$value": "#1f6f8b"},
+                  "deep": {"sand": {"$value": "#d9b36c", "$extensions": {"palettecheck": {"locked": True}}}},
+                  "alias": {"$value": "{brand.sea}"}},
+        "space": {"$type": "dimension", "small": {"$value": "4px"}},
+        "accent": {"$type": "color", "$value": {"colorSpace": "srgb", "components": [1, 0.5, 0]}},
+    }
+    f = tmp_path / "t.tokens"
+    f.write_text(json.dumps(tokens))
+    p = read_source(str(f))
+    assert [s.name for s in p] == ["brand.sea", "brand.deep.sand", "accent"]
+    assert p[1].locked and p.hexes[2] == "#ff8000"
+
+
+def test_css_custom_properties(tmp_path):
+    f = tmp_path / "p.css"
+    f.write_text("/* --hidden: #000; */ :root { --brand-teal: #1f6f8b; --gap: 4px;\n"
+                 "--accent: rgb(10 20 30 / 50%) !important; }")
+    p = read_source(str(f))
+    assert [s.name for s in p] == ["brand-teal", "accent"]
+    assert p.notes and "50%" in p.notes[0]
+
+
+def test_shipped_palettes_read():
+    sizes = {f.name: len(read_source(str(f))) for f in PALETTES.iterdir() if f.suffix != ".md"}
+    assert sizes == {"kestrel-brand.json": 5, "dashboard-five.txt": 5,
+                     "tonnage-sequential.css": 7, "budget-diverging.tokens": 7}
+
+
+def test_sources_join_in_order():
+    p = read_sources(["#112233", str(PALETTES / "kestrel-brand.json")])
+    assert len(p) == 6 and p.hexes[0] == "#112233"
+
+
+@pytest.mark.parametrize("setup, words", [
+    (lambda d: d / "none.json", "no such file"),
+    (lambda d: d, "folder"),
+    (lambda d: (d / "x.xyz").write_text("#fff") and d / "x.xyz", "cannot read .xyz"),
+    (lambda d: (d / "n.json").write_text("42") and d / "n.json", "expected a list"),
+    (lambda d: (d / "b.json").write_text('[{"name": 1}]') and d / "b.json", "item 1"),
+])
+def test_errors_name_the_file(tmp_path, setup, words):
+    path = setup(tmp_path)
+    with pytest.raises(ReadError) as e:
+        read_source(str(path))
+    assert str(path) in str(e.value) and words in str(e.value)
