@@ -44,7 +44,7 @@ class Perceived:
     palette: Palette
     settings: Settings
     rgb255: np.ndarray  #: (n, 3)
-    ucs: dict  #: vision -> (n, 3) CAM02-UCS J'a'b' of the simulated colours
+    ucs: dict  #: vision -> (n, 3) CAM02-UCS J'a'b' (always has normal and achromatopsia)
     delta: dict  #: vision -> (n, n) ΔE'
     background_rgb255: np.ndarray  #: (m, 3)
     contrast: np.ndarray = field(default=None)  #: (n, m) WCAG ratio colour vs background
@@ -55,9 +55,9 @@ def perceive_palette(palette: Palette, settings: Settings) -> Perceived:
     from .color import parse_color
 
     rgb = palette.rgb255
-    visions = tuple(dict.fromkeys((*settings.visions, "achromatopsia")))
+    visions = tuple(dict.fromkeys(("normal", *settings.visions, "achromatopsia")))
     simulated = np.stack([simulate(rgb, v, settings.severity) for v in visions]) if len(rgb) else None
-    ucs_all = to_ucs(simulated) if simulated is not None else None
+    ucs_all = to_ucs(simulated, settings.viewing) if simulated is not None else None
     ucs = {v: (ucs_all[i] if ucs_all is not None else np.zeros((0, 3))) for i, v in enumerate(visions)}
     delta = {v: pairwise_delta_e(u) for v, u in ucs.items()}
     bg = np.array([parse_color(b)[0] for b in settings.backgrounds], dtype=float)
@@ -83,7 +83,8 @@ def _shortfall(value: float, threshold: float) -> float:
 
 def check_duplicates(p: Perceived) -> list[Finding]:
     """Near-duplicates: pairs nobody can tell apart, whatever their vision."""
-    s, d = p.settings, p.delta["normal"] if "normal" in p.delta else pairwise_delta_e(to_ucs(p.rgb255))
+    s = p.settings
+    d = p.delta["normal"]
     out = []
     for i, j in pair_indices(len(p.rgb255), s.kind):
         if d[i, j] < s.duplicate_delta_e:
@@ -192,7 +193,7 @@ def _blends_into_background(p: Perceived) -> list[Finding]:
     for k, bg in enumerate(p.background_rgb255):
         low = np.full(len(p.rgb255), np.inf)
         for v in s.visions:
-            bg_ucs = to_ucs(simulate(bg, v, s.severity))
+            bg_ucs = to_ucs(simulate(bg, v, s.severity), s.viewing)
             low = np.minimum(low, np.sqrt(np.sum((p.ucs[v] - bg_ucs) ** 2, axis=-1)))
         for i in np.nonzero(low < s.error_delta_e)[0]:
             out.append(Finding(
@@ -223,7 +224,7 @@ def _uniformity(p: Perceived, idx: list[int], arm: str) -> list[Finding]:
     s = p.settings
     if len(idx) < 3:
         return []
-    u = p.ucs["normal"][idx] if "normal" in p.ucs else to_ucs(p.rgb255[idx])
+    u = p.ucs["normal"][idx]
     steps = np.sqrt(np.sum(np.diff(u, axis=0) ** 2, axis=-1))
     cv = float(np.std(steps) / np.mean(steps)) if np.mean(steps) > 0 else np.inf
     if cv <= s.step_cv:
@@ -239,7 +240,7 @@ def check_order(p: Perceived) -> list[Finding]:
     s, n = p.settings, len(p.rgb255)
     if s.kind == "categorical" or n < 2:
         return []
-    j = p.ucs["normal"][:, 0] if "normal" in p.ucs else to_ucs(p.rgb255)[:, 0]
+    j = p.ucs["normal"][:, 0]
     if s.kind == "sequential":
         arms = [("", list(range(n)))]
     else:

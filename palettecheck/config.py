@@ -17,6 +17,7 @@ References
 from __future__ import annotations
 
 import dataclasses
+import math
 import os
 from dataclasses import dataclass, fields
 from pathlib import Path
@@ -84,6 +85,17 @@ class Settings:
     #: grey view: pairs below the error threshold are errors (True) or warnings
     print_safe: bool = False
     fail_under: float = 0.0
+    #: CIECAM02 viewing conditions (CIE 159:2004 symbols); defaults: the sRGB
+    #: reference display as colorspacious sets it up (64 lux, 20 % grey surround)
+    L_A: float = (64 / math.pi) * 0.2  #: adapting luminance, cd/m²
+    Y_b: float = 20.0  #: background relative luminance, percent
+    surround: str = "average"  #: average, dim or dark
+
+    @property
+    def viewing(self):
+        from .perceive import Viewing
+
+        return Viewing(Y_b=self.Y_b, L_A=self.L_A, surround=self.surround)
 
     @property
     def error_delta_e(self) -> float:
@@ -118,6 +130,10 @@ class Settings:
                 raise SettingsError(f"{name} must be at least 1, not {getattr(self, name)}")
         if self.min_delta_e is not None and not self.min_delta_e > 0:
             raise SettingsError(f"min_delta_e must be positive, not {self.min_delta_e}")
+        if self.surround not in ("average", "dim", "dark"):
+            raise SettingsError(f"surround must be average, dim or dark, not {self.surround!r}")
+        if not (self.L_A > 0 and 0 < self.Y_b <= 100):
+            raise SettingsError(f"L_A must be positive and Y_b in (0, 100], not {self.L_A}, {self.Y_b}")
         if not 0 <= self.fail_under <= 100:
             raise SettingsError(f"fail_under must lie in 0-100, not {self.fail_under}")
         return self

@@ -167,3 +167,10 @@ def test_removing_a_finding_never_lowers_the_score():
     full = score_findings(r.findings).value
     for k in range(len(r.findings)):
         assert score_findings(r.findings[:k] + r.findings[k + 1:]).value >= full
+
+
+def test_viewing_conditions_reach_the_measure():
+    cols = ("#b8432f", "#4d8a34", "#1d3b6e")
+    a = check_palette(pal(*cols)).pairs()
+    b = check_palette(pal(*cols), Settings(surround="dark", L_A=20.0, Y_b=10.0)).pairs()
+    assert a[0]["delta_e"]["normal"] != b[0]["delta_e"]["normal"]
