@@ -118,7 +118,9 @@ def pairwise_delta_e(jab) -> np.ndarray:
 def srgb1_to_linear(srgb1) -> np.ndarray:
     """sRGB decoding (electro-optical transfer) [IEC61966]."""
     c = np.asarray(srgb1, dtype=float)
-    return np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
+    # np.where evaluates both branches: keep the power's base positive so that values
+    # below -0.055 (out of gamut) take the linear branch without an invalid-power warning.
+    return np.where(c <= 0.04045, c / 12.92, ((np.maximum(c, 0.04045) + 0.055) / 1.055) ** 2.4)
 
 
 def linear_to_srgb1(linear) -> np.ndarray:
