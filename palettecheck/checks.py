@@ -96,22 +96,12 @@ def check_duplicates(p: Perceived) -> list[Finding]:
     return out
 
 
-def _duplicate_pairs(p: Perceived) -> set:
-    return {f.indices for f in check_duplicates(p)}
-
-
 def check_distinguishable(p: Perceived) -> list[Finding]:
     """Pairs too close under some vision for the mark size."""
     s = p.settings
-    err = s.error_delta_e
-    # The comfort margin is for categories read from a legend; ramp neighbours
-    # are read in order, next to each other, and only need to be noticeable.
-    warn = s.warn_delta_e if s.kind == "categorical" else err
-    skip = _duplicate_pairs(p)
+    err, warn = s.error_delta_e, s.warn_delta_e
     out = []
     for i, j in pair_indices(len(p.rgb255), s.kind):
-        if (i, j) in skip:
-            continue
         values = {v: float(p.delta[v][i, j]) for v in s.visions}
         worst = min(values, key=values.get)
         low = values[worst]
@@ -136,11 +126,10 @@ def check_grey(p: Perceived) -> list[Finding]:
     """Grey print: pairs that merge when the chart is printed or shown in grey."""
     s = p.settings
     d = p.delta["achromatopsia"]
-    skip = _duplicate_pairs(p)
     severity = ERROR if s.print_safe else WARNING
     out = []
     for i, j in pair_indices(len(p.rgb255), s.kind):
-        if (i, j) not in skip and d[i, j] < s.error_delta_e:
+        if d[i, j] < s.error_delta_e:
             out.append(Finding(
                 "grey", severity,
                 f"{_name(p, i)} and {_name(p, j)} print as nearly the same grey "

@@ -53,10 +53,12 @@ def test_red_green_pair_fails_only_under_deuteranopia_and_protanopia():
     assert not r.passed
 
 
-def test_near_duplicates_reported_once():
+def test_near_duplicates():
+    # A near-duplicate pair is also undistinguishable: it keeps both findings, so that
+    # pulling the two apart removes deductions and never adds one.
     r = check_palette(pal("#336699", "#346699", "#cc5500"))
     assert checks_of(r, "error").count("near-duplicate") == 1
-    assert not any(f.check == "distinguishable" and f.indices == (0, 1) for f in r.findings)
+    assert any(f.check == "distinguishable" and f.indices == (0, 1) for f in r.findings)
 
 
 def test_contrast_against_each_background():
@@ -138,7 +140,7 @@ def test_fail_under():
 colour = st.tuples(*[st.integers(0, 255)] * 3)
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.filter_too_much])
+@settings(max_examples=300, deadline=None, suppress_health_check=[HealthCheck.filter_too_much])
 @given(a=colour, b=colour, c=colour, step=st.floats(1.05, 3.0))
 def test_score_never_drops_when_a_colour_moves_away(a, b, c, step):
     """Property: move colour b away from colour a (in CAM02-UCS, along a -> b). If the
