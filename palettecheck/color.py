@@ -114,6 +114,8 @@ def parse_color(text: str) -> tuple[tuple[float, float, float], float]:
             if hu == "%" or su not in ("%", None) or lu not in ("%", None):
                 raise ColorError(f"{s!r}: hsl() takes an angle and two percentages")
             turn = {"deg": 1 / 360, None: 1 / 360, "grad": 1 / 400, "rad": 1 / (2 * math.pi), "turn": 1.0}[hu]
+            if not math.isfinite(float(h)):  # inf % 1.0 is nan, which colorsys turns into grey
+                raise ColorError(f"{s!r}: channels must be finite")
             hue = (float(h) * turn) % 1.0
             sat_, light_ = (min(1.0, max(0.0, float(v) / 100.0)) for v in (sat, light))
             rgb = tuple(255.0 * c for c in colorsys.hls_to_rgb(hue, light_, sat_))
