@@ -16,7 +16,7 @@ from .config import Settings
 from .perceive import contrast_ratio, pairwise_delta_e, relative_luminance, to_ucs
 from .vision import simulate
 
-__all__ = ["Finding", "Perceived", "perceive_palette", "pair_indices", "ALL_CHECKS"]
+__all__ = ["Finding", "Perceived", "seen", "perceive_palette", "pair_indices", "ALL_CHECKS"]
 
 ERROR, WARNING, INFO = "error", "warning", "info"
 _VISION_LABEL = {
@@ -50,15 +50,23 @@ class Perceived:
     contrast: np.ndarray = field(default=None)  #: (n, m) WCAG ratio colour vs background
 
 
+def seen(rgb255, settings: Settings, visions) -> np.ndarray:
+    """CAM02-UCS J'a'b' of sRGB 0-255 colours ``(..., 3)`` as each vision sees them,
+    with the settings' severity, CVD model and viewing conditions: ``(V, ..., 3)``.
+    The one place colours are simulated and measured, for checks and searches alike."""
+    rgb = np.asarray(rgb255, dtype=float)
+    sims = np.stack([simulate(rgb, v, settings.severity, settings.cvd_model) for v in visions])
+    return to_ucs(sims, settings.viewing)
+
+
 def perceive_palette(palette: Palette, settings: Settings) -> Perceived:
     """Simulate each vision (plus the grey view) and measure everything once."""
     from .color import parse_color
 
     rgb = palette.rgb255
     visions = tuple(dict.fromkeys(("normal", *settings.visions, "achromatopsia")))
-    simulated = np.stack([simulate(rgb, v, settings.severity) for v in visions]) if len(rgb) else None
-    ucs_all = to_ucs(simulated, settings.viewing) if simulated is not None else None
-    ucs = {v: (ucs_all[i] if ucs_all is not None else np.zeros((0, 3))) for i, v in enumerate(visions)}
+    ucs_all = seen(rgb, settings, visions)
+    ucs = {v: ucs_all[i] for i, v in enumerate(visions)}
     delta = {v: pairwise_delta_e(u) for v, u in ucs.items()}
     bg = np.array([parse_color(b)[0] for b in settings.backgrounds], dtype=float)
     contrast = contrast_ratio(rgb[:, None, :], bg[None, :, :]) if len(rgb) else np.zeros((0, len(bg)))
@@ -176,13 +184,11 @@ def check_contrast(p: Perceived) -> list[Finding]:
 
 def _blends_into_background(p: Perceived) -> list[Finding]:
     """Ramp steps that cannot be told from a background: such a cell reads as 'no data'."""
-    from .vision import simulate
-
     s, out = p.settings, []
     for k, bg in enumerate(p.background_rgb255):
         low = np.full(len(p.rgb255), np.inf)
         for v in s.visions:
-            bg_ucs = to_ucs(simulate(bg, v, s.severity), s.viewing)
+            bg_ucs = seen(bg, s, (v,))[0]
             low = np.minimum(low, np.sqrt(np.sum((p.ucs[v] - bg_ucs) ** 2, axis=-1)))
         for i in np.nonzero(low < s.error_delta_e)[0]:
             out.append(Finding(

@@ -67,6 +67,9 @@ def common_options(f):
                      help="Mark size: thin lines and small points need larger differences (default area)."),
         click.option("--severity", type=click.FloatRange(0, 1), default=None,
                      help="CVD severity, 0-1 (default 1: dichromacy)."),
+        click.option("--cvd-model", type=click.Choice(["machado", "brettel"]), default=None,
+                     help="CVD simulation: Machado et al. 2009 (default) or Brettel et al. 1997, "
+                          "the better-founded model for tritanopia."),
         click.option("--min-delta-e", type=click.FloatRange(min=0, min_open=True), default=None,
                      help="ΔE' below which a pair is an error (default: set by --mark)."),
         click.option("--print-safe", is_flag=True, default=None,
@@ -115,7 +118,8 @@ def cli() -> None:
 @cli.command("check")
 @click.argument("sources", nargs=-1, required=True)
 @common_options
-def check_cmd(sources, backgrounds, kind, mark, severity, min_delta_e, print_safe, fail_under, fmt, output):
+def check_cmd(sources, backgrounds, kind, mark, severity, cvd_model, min_delta_e, print_safe, fail_under,
+              fmt, output):
     """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name) or a
     palette file (.txt, .json, .tokens, .css); several SOURCEs make one palette."""
     from .judge import check_palette
@@ -123,7 +127,8 @@ def check_cmd(sources, backgrounds, kind, mark, severity, min_delta_e, print_saf
     from .report import render
 
     settings = settings_from(dict(backgrounds=backgrounds, kind=kind, mark=mark, severity=severity,
-                                  min_delta_e=min_delta_e, print_safe=print_safe, fail_under=fail_under))
+                                  cvd_model=cvd_model, min_delta_e=min_delta_e, print_safe=print_safe,
+                                  fail_under=fail_under))
     from .color import parse_color
 
     try:

@@ -34,7 +34,8 @@ _TOKEN = re.compile(rf"({_NUM})(%|deg|grad|rad|turn)?", re.IGNORECASE)
 
 def to_hex(srgb255) -> str:
     """``#rrggbb`` (lower case) of an sRGB 0-255 triple, rounded and clipped."""
-    r, g, b = (int(round(min(255.0, max(0.0, float(c))))) for c in srgb255)
+    # half up, as browsers round rgb(10% 20% 30%) to #1a334d (Python's round() is half-even)
+    r, g, b = (int(math.floor(min(255.0, max(0.0, float(c))) + 0.5)) for c in srgb255)
     return f"#{r:02x}{g:02x}{b:02x}"
 
 

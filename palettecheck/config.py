@@ -65,6 +65,8 @@ class Settings:
     backgrounds: tuple[str, ...] = ("#ffffff",)
     visions: tuple[str, ...] = ("normal", "protanopia", "deuteranopia", "tritanopia")
     severity: float = 1.0  #: CVD severity 0-1 (Machado et al. 2009)
+    #: CVD simulation: machado (Machado et al. 2009) or brettel (Brettel et al. 1997)
+    cvd_model: str = "machado"
     #: ΔE' below which a pair is an error; None: the mark's 50 %-noticeable step.
     min_delta_e: float | None = None
     #: warning below this multiple of the error threshold (common practice, no source)
@@ -123,6 +125,8 @@ class Settings:
             raise SettingsError(f"visions must be chosen from {', '.join(VISIONS)}, not {bad or 'none'}")
         if not 0.0 <= self.severity <= 1.0:
             raise SettingsError(f"severity must lie in 0-1, not {self.severity}")
+        if self.cvd_model not in ("machado", "brettel"):
+            raise SettingsError(f"cvd_model must be machado or brettel, not {self.cvd_model!r}")
         if not self.backgrounds:
             raise SettingsError("at least one background is needed")
         for name in ("comfort_factor", "graphic_contrast", "text_contrast", "enhanced_contrast"):

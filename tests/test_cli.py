@@ -133,3 +133,10 @@ def test_python_dash_m(tmp_path):
     res = subprocess.run([sys.executable, "-m", "palettecheck", "check", "#1d3b6e", "#0f7c86"],
                          capture_output=True, text=True, cwd=tmp_path)
     assert res.returncode in (0, 1) and "score" in res.stdout
+
+
+def test_cvd_model_option_changes_tritanopia(invoke):
+    a = json.loads(invoke("check", "#1d3b6e", "#0f7c86", "--format", "json").stdout)
+    b = json.loads(invoke("check", "#1d3b6e", "#0f7c86", "--format", "json", "--cvd-model", "brettel").stdout)
+    assert a["pairs"][0]["delta_e"]["normal"] == b["pairs"][0]["delta_e"]["normal"]
+    assert a["pairs"][0]["delta_e"]["tritanopia"] != b["pairs"][0]["delta_e"]["tritanopia"]

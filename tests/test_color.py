@@ -212,3 +212,11 @@ def test_palette_with_hexes_and_add():
     assert moved.hexes == ["#111111", "#eeeeee"] and moved[0].name == "ink" and moved[0].locked
     both = pal + make_palette([("#f00", None, False)], source="b")
     assert len(both) == 3 and both.source == "a + b"
+
+
+def test_hex_rounds_half_up_like_browsers():
+    # CSS Color 4 serialises rgb(10% 20% 30%) = (25.5, 51, 76.5) as rgb(26, 51, 77) in
+    # browsers (common practice, no source); Python's round() would give 76.
+    from palettecheck.color import to_hex
+
+    assert to_hex((25.5, 51.0, 76.5)) == "#1a334d"
