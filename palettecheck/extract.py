@@ -1,0 +1,522 @@
+"""From the distinct colours of a chart to the few colours that carry its data.
+
+A reader (raster or SVG) hands over a :class:`ColorCounts`: every distinct colour
+of the chart once, with its alpha and how many pixels (or how much area) it covers,
+plus the same for the border. Nothing here looks at single pixels; everything works
+on a few hundred to a few ten thousand distinct colours, each converted to CAM02-UCS
+once.
+
+The steps, each tuned for charts rather than photographs:
+
+1. **Background**: the colour that dominates the border. When the border is
+   transparent the given background is used, and translucent colours are
+   composited over it (source-over in sRGB-encoded values, as browsers do).
+2. **Merge**: colours within ``merge_radius`` ΔE' of a more frequent colour join
+   it (JPEG noise, rounding). Each group keeps its most frequent member, which in a
+   lossless file is the exact colour the chart was drawn with.
+3. **Continuous scale**: when many groups lie along one smooth path in CAM02-UCS
+   and the pixels are spread along it (a heat map, a colour bar), the chart is a
+   continuous scale: it is reported as evenly spaced steps along that path and
+   checked as a sequential or diverging ramp.
+4. **Blends**: anti-aliased edges and translucent overlaps make colours that lie
+   between stronger ones. A group is dropped when it lies (in sRGB) on the segment
+   between two stronger groups (the background included), or where a translucent
+   mark over another one would put it, and covers less than half of what its
+   parents cover.
+5. **Neutrals**: greys (CAM02-UCS colourfulness M' below ``NEUTRAL_CHROMA``) are
+   text, axes and grid lines. They are reported apart and only checked as data
+   colours when asked.
+6. **Minimum share**: groups under ``min_share`` of the non-background pixels are
+   left out.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .color import Palette, Swatch, to_hex
+from .perceive import to_ucs
+
+__all__ = [
+    "ColorCounts",
+    "ChartColors",
+    "ChartPalette",
+    "extract",
+    "ramp_order",
+    "DEFAULT_MERGE_RADIUS",
+    "DEFAULT_MIN_SHARE",
+    "NEUTRAL_CHROMA",
+]
+
+#: ΔE' within which colours count as one (JPEG noise, rounding). About 1.5 to 3
+#: just-noticeable steps: practical choice, no source.
+DEFAULT_MERGE_RADIUS = 3.0
+#: Colours covering less than this fraction of the non-background pixels are left
+#: out (practical choice: a legend swatch alone is more than this on small charts).
+DEFAULT_MIN_SHARE = 0.002
+#: Below this CAM02-UCS colourfulness M' (= sqrt(a'² + b'²)) a colour reads as grey
+#: and is treated as text, axis or grid (practical choice, no source).
+NEUTRAL_CHROMA = 5.0
+#: Most steps reported for a continuous scale.
+RAMP_STEPS = 9
+#: A continuous scale needs at least this many merged colours along its path ...
+SCALE_MIN_COLORS = 8
+#: ... a path at least this long in ΔE' ...
+SCALE_MIN_LENGTH = 25.0
+#: ... pixels spread over at least this many colours' worth (exp of the entropy of
+#: the shares along the path), so a single line with its anti-aliased fringe is not
+#: mistaken for a scale ...
+SCALE_MIN_SPREAD = 5.0
+#: ... and this fraction of the chromatic pixels on or next to the path.
+SCALE_MIN_COVERAGE = 0.85
+#: Each end of a scale's path loses the colours holding this fraction of its pixels
+#: (noise strung onto the ends; a colour bar's last rows).
+SCALE_TAIL = 0.005
+#: Blends lie within this sRGB distance (0-255 scale) of the segment between their
+#: parents: rounding for lossless files, compression noise for lossy ones.
+BLEND_TOLERANCE = {False: 4.5, True: 12.0}
+#: ... and cover at most this fraction of the weaker parent (unless mostly on edges).
+BLEND_SHARE_RATIO = 0.5
+#: Groups under this share of the non-background pixels are not used as parents.
+PARENT_MIN_SHARE = 0.0005
+
+
+@dataclass(frozen=True)
+class ColorCounts:
+    """Distinct colours of a chart and how much of it each covers.
+
+    :param rgba: ``(n, 4)`` float, sRGB 0-255 and alpha 0-255.
+    :param weights: ``(n,)`` pixel counts (raster) or areas (vector).
+    :param border_rgba: ``(m, 4)`` distinct colours along the outer edge.
+    :param border_weights: ``(m,)`` their pixel counts.
+    :param flat: ``(n,)`` how much of each colour sits in flat fill (runs of equal
+        pixels) rather than on edges; None: all of it (vector files).
+    :param exact: colours come from a vector file: no anti-aliasing, no noise.
+    :param lossy: compressed with loss (JPEG, lossy WebP): expect noise.
+    """
+
+    rgba: np.ndarray
+    weights: np.ndarray
+    border_rgba: np.ndarray
+    border_weights: np.ndarray
+    flat: np.ndarray | None = None
+    exact: bool = False
+    lossy: bool = False
+    size: tuple[int, int] | None = None
+    notes: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class ChartColors:
+    """What a chart is drawn with: the result of :func:`extract`.
+
+    ``colors`` and ``neutrals`` are ``(hex, share)`` pairs, share being the fraction
+    of the non-background pixels. For a continuous scale ``colors`` are evenly
+    spaced steps along it, in order, and ``ramp_kind`` says whether the scale looks
+    sequential or diverging.
+    """
+
+    source: str
+    background: str
+    background_from: str  #: "detected" (border, or an SVG's backdrop) or "given" (transparent)
+    scale: str  #: "categorical" or "continuous"
+    colors: tuple[tuple[str, float], ...]
+    neutrals: tuple[tuple[str, float], ...]
+    ramp_kind: str | None = None
+    size: tuple[int, int] | None = None
+    notes: tuple[str, ...] = ()
+
+    def palette(self, include_neutrals: bool = False) -> "ChartPalette":
+        """The colours to check, as a palette (neutrals appended when asked)."""
+        hexes = [h for h, _ in self.colors]
+        if include_neutrals and self.scale == "categorical":
+            hexes += [h for h, _ in self.neutrals if h not in hexes]
+        notes = list(self.notes)
+        if self.neutrals and not include_neutrals:
+            greys = ", ".join(h for h, _ in self.neutrals)
+            notes.append(f"greys taken for text, axes and grid, not checked as data colours: {greys}")
+        swatches = tuple(Swatch(h) for h in dict.fromkeys(hexes))
+        return ChartPalette(swatches, self.source, tuple(notes), reading=self)
+
+    def to_dict(self) -> dict:
+        return {
+            "background": self.background,
+            "scale": self.scale,
+            "colors": [{"hex": h, "share": round(s, 4)} for h, s in self.colors],
+            "neutrals": [{"hex": h, "share": round(s, 4)} for h, s in self.neutrals],
+        }
+
+
+@dataclass(frozen=True)
+class ChartPalette(Palette):
+    """A palette read from a chart image; ``reading`` keeps what was found."""
+
+    reading: ChartColors | None = field(default=None, compare=False)
+
+
+def _pack(rgb: np.ndarray) -> np.ndarray:
+    q = rgb.astype(np.int64)
+    return (q[:, 0] << 16) | (q[:, 1] << 8) | q[:, 2]
+
+
+def _unpack(packed: np.ndarray) -> np.ndarray:
+    return np.stack([(packed >> 16) & 255, (packed >> 8) & 255, packed & 255], axis=-1).astype(float)
+
+
+def _composite(rgba: np.ndarray, bg: np.ndarray, *weights):
+    """Opaque 8-bit colours over ``bg``, equal results merged: ``(rgb, *weights)``."""
+    a = rgba[:, 3:4] / 255.0
+    rgb = np.rint(a * rgba[:, :3] + (1.0 - a) * bg[None, :])
+    packed = _pack(np.clip(rgb, 0, 255))
+    uniq, inv = np.unique(packed, return_inverse=True)
+    return (_unpack(uniq), *(np.bincount(inv.ravel(), weights=w, minlength=len(uniq)) for w in weights))
+
+
+def find_background(counts: ColorCounts, fallback) -> tuple[np.ndarray, str]:
+    """The dominant border colour, or ``fallback`` when the border is transparent."""
+    fallback = np.asarray(fallback, dtype=float)
+    b, w = counts.border_rgba, counts.border_weights
+    if len(b) == 0 or w.sum() <= 0:
+        return fallback, "given"
+    opaque = b[:, 3] >= 250
+    if w[opaque].sum() < 0.5 * w.sum():
+        return fallback, "given"
+    rgb, cw = _composite(b[opaque], fallback, w[opaque])
+    if counts.lossy and len(rgb) > 1:  # noise splits the border colour: take the densest spot
+        jab = to_ucs(rgb)
+        near = np.sqrt(((jab[:, None, :] - jab[None, :, :]) ** 2).sum(-1)) <= DEFAULT_MERGE_RADIUS
+        return rgb[int(np.argmax(near.astype(float) @ cw))], "detected"
+    return rgb[int(np.argmax(cw))], "detected"
+
+
+def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: float,
+           first_radius: float | None = None):
+    """Greedy grouping: colours, most frequent first, open a group unless within
+    ``radius`` of one already open (``first_radius`` of group 0, the background).
+    Returns each colour's group (-1: none near) and the seed of each group."""
+    first_radius = radius if first_radius is None else first_radius
+    order = np.argsort(-w, kind="stable")
+    order = np.concatenate(([first], order[order != first]))
+    seeds = [first]
+    centres = [jab[first]]
+    for i in order[1:]:
+        if w[i] < seed_min:
+            break
+        d = np.sqrt(((np.asarray(centres) - jab[i]) ** 2).sum(-1))
+        if d.min() > radius and d[0] > first_radius:
+            seeds.append(int(i))
+            centres.append(jab[i])
+    centres = np.asarray(centres)
+    group = np.full(len(jab), -1)
+    best = np.full(len(jab), np.inf)
+    for k in range(0, len(centres), 64):  # chunks keep the distance matrix small
+        d = np.sqrt(((jab[:, None, :] - centres[None, k : k + 64, :]) ** 2).sum(-1))
+        j = np.argmin(d, axis=1)
+        dj = d[np.arange(len(jab)), j]
+        better = dj < best
+        best[better] = dj[better]
+        group[better] = j[better] + k
+    group[best > radius] = -1
+    near_first = np.sqrt(((jab - centres[0]) ** 2).sum(-1)) <= first_radius
+    group[near_first & (group == -1)] = 0
+    group[seeds] = np.arange(len(seeds))
+    return group, np.asarray(seeds)
+
+
+def _segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
+    """Distance from point ``x`` to each segment ``p[i] + t (q[i] - p[i])``, t in [lo, hi]."""
+    d = q - p
+    dd = (d * d).sum(-1)
+    t = np.where(dd > 0, ((x - p) * d).sum(-1) / np.where(dd > 0, dd, 1.0), 0.0)
+    t = np.clip(t, lo, hi)
+    return np.sqrt(((p + t[:, None] * d - x) ** 2).sum(-1))
+
+
+#: JPEG's full-range BT.601 RGB -> YCbCr (ITU-T T.871), offsets dropped.
+_YCC = np.array([[0.299, 0.587, 0.114], [-0.168736, -0.331264, 0.5], [0.5, -0.418688, -0.081312]])
+
+
+def _parallelogram_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray) -> np.ndarray:
+    """Distance, in YCbCr, from ``x`` to ``p + t1 (luma of q - p) + t2 (chroma of q - p)``
+    with t1, t2 in [0, 1]: what a lossy coder that halves the colour resolution
+    makes where two colours meet (luma and chroma blend by different amounts)."""
+    x, p, q = x @ _YCC.T, p @ _YCC.T, q @ _YCC.T
+    d, r = q - p, x - p
+    dy = d[:, 0]
+    t1 = np.clip(np.where(np.abs(dy) > 1e-9, r[:, 0] / np.where(np.abs(dy) > 1e-9, dy, 1.0), 0.0), 0, 1)
+    dc = d[:, 1:]
+    cc = (dc * dc).sum(-1)
+    t2 = np.clip(np.where(cc > 1e-9, (r[:, 1:] * dc).sum(-1) / np.where(cc > 1e-9, cc, 1.0), 0.0), 0, 1)
+    res = r.copy()
+    res[:, 0] -= t1 * dy
+    res[:, 1:] -= t2[:, None] * dc
+    return np.sqrt((res * res).sum(-1))
+
+
+def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, parents, radius) -> np.ndarray:
+    """Which groups in ``test`` are made by drawing rather than chosen by the author.
+
+    - Edge blends (anti-aliasing; for lossy files also halved colour resolution):
+      the colour lies between two groups with more flat fill than it has (the
+      background always qualifies), and either sits mostly on edges (less than
+      half of it in flat fill) or covers at most ``BLEND_SHARE_RATIO`` of each
+      chromatic parent.
+    - Overlaps: a translucent mark ``p`` over another region ``q`` gives
+      ``p + s (q - background)``, s = 1 - alpha in [0.15, 0.85]. The parents must
+      be marks (mostly flat fill, colourful, away from the background), ``p`` at
+      least ``2 radius`` ΔE' from the colour, whatever their share: where
+      translucent areas are layered, the overlaps can cover more than the marks.
+    """
+    blend = np.zeros(len(rgb), dtype=bool)
+    parents = np.asarray([p for p in parents if p != bg], dtype=int)
+    solid = parents[flat[parents] >= 0.5 * w[parents]]  # mostly flat fill: real marks
+    solid = solid[(chroma[solid] >= NEUTRAL_CHROMA)
+                  & (np.sqrt(((jab[solid] - jab[bg]) ** 2).sum(-1)) > 4.0 * radius)]
+    for c in test:
+        others = parents[(parents != c) & (flat[parents] > flat[c])]
+        strong = np.concatenate(([bg], others))
+        i, j = np.triu_indices(len(strong), 1)
+        if len(i):
+            pi, pj = strong[i], strong[j]
+            edgy = flat[c] < 0.5 * w[c]
+
+            def bound(p):
+                return np.where((p == bg) | (chroma[p] < NEUTRAL_CHROMA), np.inf, w[p])
+
+            lesser = np.minimum(bound(pi), bound(pj))
+            weak = w[c] <= BLEND_SHARE_RATIO * lesser
+            hit = (_segment_distance(rgb[c], rgb[pi], rgb[pj]) <= tol) & (edgy | weak)
+            if lossy:  # halved colour resolution: along edges, a thin seam at most
+                seam = edgy | (w[c] <= 0.1 * lesser)
+                hit |= seam & (_parallelogram_distance(rgb[c], rgb[pi], rgb[pj]) <= tol)
+            if np.any(hit):
+                blend[c] = True
+                continue
+        away = np.sqrt(((jab[solid] - jab[c]) ** 2).sum(-1))
+        tops, below = solid[away > 2.0 * radius], solid[away > radius]  # deep stacks change little
+        if len(tops) and _overlap(rgb[c], rgb[tops], rgb[below], rgb[bg],
+                                  BLEND_TOLERANCE[False] * (2.0 if lossy else 1.0)):
+            blend[c] = True
+    return blend
+
+
+def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray, tol: float) -> bool:
+    """Is ``x`` what a translucent mark over something else looks like? Seen alone
+    over the background the mark is ``p``; over a region of colour ``q`` it gives
+    ``p + s (q - bg)`` with s = 1 - alpha in [0.15, 0.85], and the mark's own colour
+    at that alpha must lie in the sRGB gamut (which rules out most chance fits)."""
+    a, b = np.meshgrid(np.arange(len(tops)), np.arange(len(below)), indexing="ij")
+    p, q = tops[a.ravel()], below[b.ravel()]
+    d = q - bg
+    dd = np.maximum((d * d).sum(-1), 1e-9)
+    s = np.clip(((x - p) * d).sum(-1) / dd, 0.15, 0.85)
+    near = np.sqrt(((p + s[:, None] * d - x) ** 2).sum(-1)) <= tol
+    # the top mark's own colour, seen as p over bg at alpha 1 - s: (p - s bg) / (1 - s)
+    own = (p - s[:, None] * bg) / (1.0 - s[:, None])
+    ok = np.all((own >= -2 * tol) & (own <= 255 + 2 * tol), axis=-1)
+    return bool(np.any(near & ok))
+
+
+def _mst_path(jab: np.ndarray):
+    """Longest path through the minimum spanning tree of the points (ΔE' edges):
+    ``(path indices in order, parent array, edge lengths to parent)``."""
+    n = len(jab)
+    d = np.sqrt(((jab[:, None, :] - jab[None, :, :]) ** 2).sum(-1))
+    parent = np.full(n, -1)
+    best = d[0].copy()
+    link = np.zeros(n, dtype=int)
+    done = np.zeros(n, dtype=bool)
+    done[0] = True
+    best[0] = np.inf
+    adj = [[] for _ in range(n)]
+    for _ in range(n - 1):
+        k = int(np.argmin(np.where(done, np.inf, best)))
+        parent[k] = link[k]
+        adj[k].append(link[k])
+        adj[link[k]].append(k)
+        done[k] = True
+        closer = (d[k] < best) & ~done
+        best[closer] = d[k][closer]
+        link[closer] = k
+
+    def farthest(start):
+        dist = np.full(n, -1.0)
+        prev = np.full(n, -1)
+        dist[start] = 0.0
+        stack = [start]
+        while stack:
+            u = stack.pop()
+            for v in adj[u]:
+                if dist[v] < 0:
+                    dist[v] = dist[u] + d[u, v]
+                    prev[v] = u
+                    stack.append(v)
+        end = int(np.argmax(dist))
+        return end, prev
+
+    a, _ = farthest(0)
+    b, prev = farthest(a)
+    path = [b]
+    while path[-1] != a:
+        path.append(int(prev[path[-1]]))
+    return path[::-1], d
+
+
+def _continuous(jab, w, chroma, bg, candidates, radius):
+    """The ordered path of a continuous scale, or None."""
+    idx = np.asarray([i for i in candidates if i != bg])
+    if len(idx) < SCALE_MIN_COLORS:
+        return None
+    path_local, d = _mst_path(jab[idx])
+    path = idx[path_local]
+    steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
+    length = float(steps.sum())
+    if len(path) < SCALE_MIN_COLORS or length < SCALE_MIN_LENGTH:
+        return None
+    if steps.max() > max(4.0 * radius, 0.2 * length):  # a jump: separate colours, not a path
+        return None
+    # colours next to the path (its fringe: rounding, anti-aliasing) count as on it
+    near = d[:, path_local].min(axis=1) <= 2.0 * radius
+    vivid = chroma[idx] >= NEUTRAL_CHROMA
+    total = w[idx][vivid].sum()
+    if total > 0 and w[idx][vivid & near].sum() < SCALE_MIN_COVERAGE * total:
+        return None
+    # pixels must be spread along the path, not piled on one colour
+    nearest = np.argmin(d[:, path_local], axis=1)
+    along = np.bincount(nearest[near], weights=w[idx][near], minlength=len(path))
+    p = along[along > 0] / along.sum()
+    if math.exp(-(p * np.log(p)).sum()) < SCALE_MIN_SPREAD:
+        return None
+    # trim thin tails (compression noise strung onto the ends of the path)
+    cum = np.cumsum(along) / along.sum()
+    lo = int(np.searchsorted(cum, SCALE_TAIL))
+    hi = int(np.searchsorted(cum, 1.0 - SCALE_TAIL)) + 1
+    return path[lo:hi], along[lo:hi]
+
+
+def _ramp_kind(jab: np.ndarray) -> str:
+    """Diverging when lightness peaks (or dips) near the middle, the middle is
+    greyish and the two ends differ in hue; otherwise sequential."""
+    j = jab[:, 0]
+    n = len(j)
+    if n < 5:
+        return "sequential"
+    m = int(np.argmax(j)) if (j.max() - max(j[0], j[-1])) > (min(j[0], j[-1]) - j.min()) else int(np.argmin(j))
+    if not (0.25 * (n - 1) <= m <= 0.75 * (n - 1)):
+        return "sequential"
+    chroma = np.hypot(jab[:, 1], jab[:, 2])
+    ends = (chroma[0] + chroma[-1]) / 2.0
+    hue = np.degrees(np.arctan2(jab[[0, -1], 2], jab[[0, -1], 1]))
+    turn = abs((hue[0] - hue[1] + 180.0) % 360.0 - 180.0)
+    if chroma[m] < 0.5 * ends and turn > 60.0 and abs(j[m] - j[0]) > 10 and abs(j[m] - j[-1]) > 10:
+        return "diverging"
+    return "sequential"
+
+
+def _sample_path(jab, rgb, path, along, bg_jab):
+    """Evenly spaced steps (by ΔE' along the path), oriented away from the background."""
+    steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
+    arc = np.concatenate(([0.0], np.cumsum(steps)))
+    length = arc[-1]
+    n = int(min(RAMP_STEPS, max(3, length // 12 + 1)))
+    if np.sum((jab[path[-1]] - bg_jab) ** 2) < np.sum((jab[path[0]] - bg_jab) ** 2):
+        path, along, arc = path[::-1], along[::-1], length - arc[::-1]
+    targets = np.linspace(0.0, length, n)
+    pick = np.unique([int(np.argmin(np.abs(arc - t))) for t in targets])
+    # each path colour's pixels go to the nearest picked step
+    owner = np.argmin(np.abs(arc[:, None] - arc[pick][None, :]), axis=1)
+    share = np.bincount(owner, weights=along, minlength=len(pick))
+    return [path[k] for k in pick], share
+
+
+def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, source: str = "",
+            min_share: float = DEFAULT_MIN_SHARE, merge_radius: float = DEFAULT_MERGE_RADIUS) -> ChartColors:
+    """The data colours, neutrals, background and scale of a chart.
+
+    :param counts: distinct colours from a reader.
+    :param fallback_background: sRGB 0-255, used when the border is transparent.
+    :param min_share: leave out colours under this fraction of the non-background pixels.
+    :param merge_radius: ΔE' within which colours count as one.
+    """
+    if not merge_radius > 0:
+        raise ValueError(f"merge radius must be positive, not {merge_radius}")
+    if not 0 <= min_share < 1:
+        raise ValueError(f"minimum share must lie in 0-1, not {min_share}")
+    bg_rgb, bg_from = find_background(counts, fallback_background)
+    notes = list(counts.notes)
+    flat_in = counts.weights if counts.flat is None else counts.flat
+    rgb, w, flat = _composite(counts.rgba, bg_rgb, counts.weights, flat_in)
+    jab = to_ucs(rgb)
+    bg_i = int(np.argmin(((rgb - bg_rgb) ** 2).sum(-1)))
+    total = float(w.sum())
+    # compression noise is strongest where most pixels are: around the background
+    group, seeds = _group(jab, w, merge_radius, bg_i, seed_min=max(total * 2e-5, 1e-12),
+                          first_radius=merge_radius * (2.0 if counts.lossy else 1.0))
+    inside = group >= 0
+    gw = np.bincount(group[inside], weights=w[inside], minlength=len(seeds))
+    gflat = np.bincount(group[inside], weights=flat[inside], minlength=len(seeds))
+    g_rgb, g_jab = rgb[seeds], jab[seeds]
+    g_chroma = np.hypot(g_jab[:, 1], g_jab[:, 2])
+    plot = total - gw[0]
+    background = to_hex(g_rgb[0])
+    if bg_from == "given":
+        notes.append(f"transparent background: colours measured over {background}")
+    if plot <= 0:
+        notes.append("the image holds only its background colour")
+        return ChartColors(source, background, bg_from, "categorical", (), (), None, counts.size, tuple(notes))
+    share = gw / plot
+
+    # a scale is drawn as flat cells or a bar: only flat fill counts towards one
+    live = [k for k in range(1, len(seeds)) if gflat[k] >= (5e-4 if counts.lossy else 1e-4) * plot]
+    vivid = [k for k in live if g_chroma[k] >= NEUTRAL_CHROMA]
+    grey = [k for k in live if g_chroma[k] < NEUTRAL_CHROMA]
+    found = _continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius)
+    if found is None and len(vivid) < SCALE_MIN_COLORS:  # a grey scale
+        found = _continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius)
+    if found is not None:
+        path, along = found
+        picked, pshare = _sample_path(g_jab, g_rgb, np.asarray(path), along, g_jab[0])
+        kind = _ramp_kind(g_jab[picked])
+        colors = tuple((to_hex(g_rgb[k]), float(s / plot)) for k, s in zip(picked, pshare))
+        on_path = set(int(k) for k in path)
+        neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)
+                         if k != 0 and k not in on_path and g_chroma[k] < NEUTRAL_CHROMA and share[k] >= min_share)
+        notes.append(f"continuous colour scale: {len(path)} colours along one path, "
+                     f"shown as {len(colors)} evenly spaced steps, checked as {kind}")
+        return ChartColors(source, background, bg_from, "continuous", colors, neutrals, kind,
+                           counts.size, tuple(notes))
+
+    test = [k for k in range(1, len(seeds)) if share[k] >= min_share]
+    parents = [k for k in range(len(seeds)) if k == 0 or share[k] >= PARENT_MIN_SHARE]
+    blend = np.zeros(len(seeds), dtype=bool) if counts.exact else \
+        _blends(g_rgb, g_jab, gw, gflat, g_chroma, 0, BLEND_TOLERANCE[counts.lossy], counts.lossy, test,
+                parents, merge_radius)
+    keep = [k for k in np.argsort(-gw, kind="stable") if k != 0 and not blend[k] and share[k] >= min_share]
+    colors = tuple((to_hex(g_rgb[k]), float(share[k])) for k in keep if g_chroma[k] >= NEUTRAL_CHROMA)
+    neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in keep if g_chroma[k] < NEUTRAL_CHROMA)
+    if not colors:
+        notes.append("no data colours found: only the background and greys")
+    return ChartColors(source, background, bg_from, "categorical", colors, neutrals, None,
+                       counts.size, tuple(notes))
+
+
+def ramp_order(hexes, background: str) -> list[int]:
+    """Indices putting colours in ramp order: along the shortest tour through them
+    in CAM02-UCS (the longest path of their minimum spanning tree, the rest placed
+    by lightness), starting from the end nearest the background."""
+    rgb = np.array([[int(h[i : i + 2], 16) for i in (1, 3, 5)] for h in hexes], dtype=float)
+    jab = to_ucs(rgb)
+    path, _ = _mst_path(jab)
+    bg = to_ucs(np.array([int(background[i : i + 2], 16) for i in (1, 3, 5)], dtype=float))
+    if np.sum((jab[path[-1]] - bg) ** 2) < np.sum((jab[path[0]] - bg) ** 2):
+        path = path[::-1]
+    rest = [i for i in range(len(hexes)) if i not in path]
+    j = jab[path, 0]
+    for i in sorted(rest, key=lambda i: jab[i, 0]):  # off the path: slot in by lightness
+        k = int(np.argmin(np.abs(j - jab[i, 0])))
+        path.insert(k + 1, i)
+        j = jab[path, 0]
+    return [int(i) for i in path]
