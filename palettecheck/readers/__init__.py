@@ -25,6 +25,9 @@ READERS = {
     ".json": "jsonfile",
     ".tokens": "jsonfile",
     ".css": "css",
+    # chart images: one image = one palette (its data colours; see palettecheck.extract)
+    **{ext: "raster" for ext in (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff")},
+    ".svg": "svg",
 }
 
 #: Palette text files larger than this are refused (a palette is a few lines).
