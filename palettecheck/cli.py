@@ -120,8 +120,10 @@ def cli() -> None:
 @common_options
 def check_cmd(sources, backgrounds, kind, mark, severity, cvd_model, min_delta_e, print_safe, fail_under,
               fmt, output):
-    """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name) or a
-    palette file (.txt, .json, .tokens, .css); several SOURCEs make one palette."""
+    """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name), a
+    palette file (.txt, .json, .tokens, .css) or a chart image (.png, .jpg, .webp,
+    .svg: its data colours, checked against its own background too); several
+    SOURCEs make one palette."""
     from .judge import check_palette
     from .readers import ReadError, read_sources
     from .report import render
@@ -135,11 +137,58 @@ def check_cmd(sources, backgrounds, kind, mark, severity, cvd_model, min_delta_e
         palette = read_sources(sources, parse_color(settings.backgrounds[0])[0])
     except ReadError as e:
         raise InputError(str(e)) from None
+    from .scan import prepare  # a chart image brings its own background (and scale)
+
+    palette, settings = prepare(palette, settings, kind, settings.backgrounds if backgrounds else ())
     result = check_palette(palette, settings)
     stem = os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
     emit(render(result, fmt, color=_use_color() and output is None), output, sources,
          f"{stem}-check.{'json' if fmt == 'json' else 'txt'}")
     sys.exit(0 if result.passed else 1)
+
+
+@cli.command("scan")
+@click.argument("paths", nargs=-1, required=True, type=click.Path())
+@click.option("--jobs", "-j", type=click.IntRange(min=1), default=None,
+              help="Processes reading images at once (default: one per core).")
+@click.option("--min-share", type=click.FloatRange(0, 1, max_open=True), default=None,
+              help="Leave out colours covering less than this fraction of a chart's "
+                   "non-background pixels (default 0.002).")
+@click.option("--merge-radius", type=click.FloatRange(min=0, min_open=True), default=None,
+              help="ΔE' within which colours count as one (default 3; noise, rounding).")
+@click.option("--include-neutrals", is_flag=True,
+              help="Check greys as data colours too (by default they are taken for text, axes, grid).")
+@common_options
+def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds, kind, fmt, output, **checks):
+    """Read the colours out of chart images (PNG, JPEG, WebP, GIF, BMP, TIFF, SVG;
+    folders are walked) and check each; prints one line per chart. Exit 1 when a
+    chart fails, 2 when a file could not be read (the others are still checked)."""
+    from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
+    from .report.summary import render_scan
+    from .scan import scan
+
+    settings = settings_from(dict(backgrounds=backgrounds, kind=kind, **checks))
+    progress = _progress_bar() if sys.stderr.isatty() else None
+    report = scan(paths, settings, jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
+                  include_neutrals=include_neutrals, progress=progress,
+                  min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
+                  merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+    for _, message in report.errors:
+        click.echo(f"palettecheck: {message}", err=True)
+    if not report.images and not report.errors:
+        raise InputError(f"no chart images found in {', '.join(paths)}")
+    emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
+         f"scan.{'json' if fmt == 'json' else 'txt'}")
+    sys.exit(report.exit_code)
+
+
+def _progress_bar():
+    """A one-line counter on stderr, cleared when done."""
+    def show(done: int, total: int) -> None:
+        click.echo(f"\rreading charts {done}/{total}", err=True, nl=False)
+        if done == total:
+            click.echo("\r" + " " * 40 + "\r", err=True, nl=False)
+    return show
 
 
 def main(argv=None) -> None:
