@@ -17,6 +17,9 @@ _LAZY = {
     "CheckResult": "judge",
     "read_source": "readers",
     "read_sources": "readers",
+    "read_image": "charts",
+    "scan": "charts",
+    "check_figure": "charts",
 }
 
 __all__ = ["__version__", *_LAZY]

@@ -137,7 +137,7 @@ def check_cmd(sources, backgrounds, kind, mark, severity, cvd_model, min_delta_e
         palette = read_sources(sources, parse_color(settings.backgrounds[0])[0])
     except ReadError as e:
         raise InputError(str(e)) from None
-    from .scan import prepare  # a chart image brings its own background (and scale)
+    from .charts import prepare  # a chart image brings its own background (and scale)
 
     palette, settings = prepare(palette, settings, kind, settings.backgrounds if backgrounds else ())
     result = check_palette(palette, settings)
@@ -165,7 +165,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
     chart fails, 2 when a file could not be read (the others are still checked)."""
     from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from .report.summary import render_scan
-    from .scan import scan
+    from .charts import scan
 
     settings = settings_from(dict(backgrounds=backgrounds, kind=kind, **checks))
     progress = _progress_bar() if sys.stderr.isatty() else None
