@@ -191,6 +191,74 @@ def _progress_bar():
     return show
 
 
+GENERATE_FORMATS = ("text", "json", "hex", "css", "matplotlib")
+
+
+@cli.command("generate")
+@click.argument("palette_kind", metavar="{sequential|diverging|categorical}",
+                type=click.Choice(["sequential", "diverging", "categorical"]))
+@click.option("-n", "count", type=int, default=None,
+              help="Number of colours (default 7 sequential, 9 diverging, 6 categorical).")
+@click.option("--from", "bases", multiple=True, metavar="COLOUR",
+              help="Ramps: base colour (sequential: one, or two for a two-hue ramp; diverging: two).")
+@click.option("--keep", multiple=True, metavar="COLOUR",
+              help="Categorical: a colour that must be in the palette unchanged (repeatable).")
+@click.option("--lightness", metavar="MIN:MAX", default=None,
+              help="J' band (0-100): the span of a ramp, or where new categorical colours may go.")
+@click.option("--min-chroma", type=float, default=None,
+              help="Categorical: M' floor of the new colours (default 10; 0 allows greys).")
+@click.option("--min-contrast", type=click.FloatRange(min=1), default=None,
+              help="WCAG ratio each colour (ramps: the far end) needs against the background; "
+                   "1 turns it off here and in the check (default 3, 4.5 for text).")
+@click.option("--seed", type=int, default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
+@common_options
+def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
+                 **checks):
+    """Make a palette that passes the checks, and show how it scores. Exit 1 when the
+    constraints cannot all be met (the output says which one binds)."""
+    from .generate import DEFAULT_MIN_CHROMA, GenerateError, generate_palette, render_generated
+
+    if kind and kind != palette_kind:
+        raise InputError(f"--kind {kind} contradicts generate {palette_kind}")
+    if palette_kind == "categorical" and bases:
+        raise InputError("--from builds ramps; a categorical palette takes --keep")
+    if palette_kind != "categorical" and (keep or min_chroma is not None):
+        raise InputError(f"{'--keep' if keep else '--min-chroma'} applies to categorical palettes; "
+                         "a ramp takes --from")
+    settings = settings_from(dict(kind=palette_kind, **checks))
+    if min_contrast is not None:
+        field = "text_contrast" if settings.mark == "text" else "graphic_contrast"
+        settings = settings.updated(**{field: min_contrast})
+    band = None
+    if lightness is not None:
+        try:
+            band = tuple(float(x) for x in lightness.split(":"))
+        except ValueError:
+            band = ()
+        if len(band) != 2:
+            raise InputError(f"--lightness {lightness!r}: expected MIN:MAX, two numbers (J', 0-100)")
+    options = dict(lightness=band, settings=settings)
+    if palette_kind == "categorical":
+        options.update(keep=keep, seed=seed,
+                       min_chroma=DEFAULT_MIN_CHROMA if min_chroma is None else min_chroma)
+    else:
+        options.update(colors=bases)
+    try:
+        gen = generate_palette(palette_kind, count, **options)
+    except GenerateError as e:
+        raise InputError(str(e)) from None
+    ext = {"json": "json", "css": "css", "matplotlib": "py"}.get(fmt, "txt")
+    emit(render_generated(gen, fmt, color=_use_color() and output is None), output, (),
+         f"{palette_kind}-palette.{ext}")
+    sys.exit(0 if gen.passed else 1)
+
+
+for _param in generate_cmd.params:  # the palette also comes as hex, CSS or a matplotlib snippet
+    if _param.name == "fmt":
+        _param.type = click.Choice(GENERATE_FORMATS)
+        _param.help = "Output: text (palette and check), json, hex, css (custom properties), matplotlib."
+
+
 def main(argv=None) -> None:
     """Entry point: click's errors become one line on stderr and exit code 2."""
     try:
