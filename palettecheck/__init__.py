@@ -20,6 +20,8 @@ _LAZY = {
     "read_image": "charts",
     "scan": "charts",
     "check_figure": "charts",
+    "generate_palette": "generate",
+    "colormap": "generate",
 }
 
 __all__ = ["__version__", *_LAZY]
