@@ -73,8 +73,8 @@ SCALE_MIN_SPREAD = 5.0
 #: ... and this fraction of the chromatic pixels on or next to the path.
 SCALE_MIN_COVERAGE = 0.85
 #: Each end of a scale's path loses the colours holding this fraction of its pixels
-#: (noise strung onto the ends; a colour bar's last rows).
-SCALE_TAIL = 0.005
+#: (noise strung onto the ends, text beyond them; a colour bar's last rows).
+SCALE_TAIL = 0.002
 #: Blends lie within this sRGB distance (0-255 scale) of the segment between their
 #: parents: rounding for lossless files, compression noise for lossy ones.
 BLEND_TOLERANCE = {False: 4.5, True: 12.0}
@@ -297,7 +297,7 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
                 continue
         away = np.sqrt(((jab[solid] - jab[c]) ** 2).sum(-1))
         tops, below = solid[away > 2.0 * radius], solid[away > radius]  # deep stacks change little
-        if len(tops) and _overlap(rgb[c], rgb[tops], rgb[below], rgb[bg],
+        if len(tops) and chroma[c] >= NEUTRAL_CHROMA and _overlap(rgb[c], rgb[tops], rgb[below], rgb[bg],
                                   BLEND_TOLERANCE[False] * (2.0 if lossy else 1.0)):
             blend[c] = True
     return blend
@@ -316,7 +316,7 @@ def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray,
     near = np.sqrt(((p + s[:, None] * d - x) ** 2).sum(-1)) <= tol
     # the top mark's own colour, seen as p over bg at alpha 1 - s: (p - s bg) / (1 - s)
     own = (p - s[:, None] * bg) / (1.0 - s[:, None])
-    ok = np.all((own >= -2 * tol) & (own <= 255 + 2 * tol), axis=-1)
+    ok = np.all((own >= -tol) & (own <= 255 + tol), axis=-1)
     return bool(np.any(near & ok))
 
 
@@ -365,36 +365,57 @@ def _mst_path(jab: np.ndarray):
     return path[::-1], d
 
 
-def _continuous(jab, w, chroma, bg, candidates, radius):
-    """The ordered path of a continuous scale, or None."""
+def _continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=()):
+    """The ordered path of a continuous scale and the weight along it, or None."""
     idx = np.asarray([i for i in candidates if i != bg])
     if len(idx) < SCALE_MIN_COLORS:
         return None
     path_local, d = _mst_path(jab[idx])
-    path = idx[path_local]
-    steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
-    length = float(steps.sum())
-    if len(path) < SCALE_MIN_COLORS or length < SCALE_MIN_LENGTH:
-        return None
-    if steps.max() > max(4.0 * radius, 0.2 * length):  # a jump: separate colours, not a path
-        return None
     # colours next to the path (its fringe: rounding, anti-aliasing) count as on it
     near = d[:, path_local].min(axis=1) <= 2.0 * radius
     vivid = chroma[idx] >= NEUTRAL_CHROMA
     total = w[idx][vivid].sum()
     if total > 0 and w[idx][vivid & near].sum() < SCALE_MIN_COVERAGE * total:
         return None
-    # pixels must be spread along the path, not piled on one colour
     nearest = np.argmin(d[:, path_local], axis=1)
-    along = np.bincount(nearest[near], weights=w[idx][near], minlength=len(path))
-    p = along[along > 0] / along.sum()
-    if math.exp(-(p * np.log(p)).sum()) < SCALE_MIN_SPREAD:
-        return None
-    # trim thin tails (compression noise strung onto the ends of the path)
+    along = np.bincount(nearest[near], weights=w[idx][near], minlength=len(path_local))
+    path = idx[path_local]
+    # trim thin tails: noise strung onto the ends ...
     cum = np.cumsum(along) / along.sum()
     lo = int(np.searchsorted(cum, SCALE_TAIL))
     hi = int(np.searchsorted(cum, 1.0 - SCALE_TAIL)) + 1
-    return path[lo:hi], along[lo:hi]
+    path, along = path[lo:hi], along[lo:hi]
+    while len(path) >= 2:
+        steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
+        jumps = np.flatnonzero(steps > max(4.0 * radius, 0.2 * steps.sum()))
+        if not len(jumps):
+            break
+        k = int(jumps[0]) + 1  # ... and text or axis colours beyond a jump
+        if along[:k].sum() < 5 * SCALE_TAIL * along.sum():
+            path, along = path[k:], along[k:]
+        elif along[k:].sum() < 5 * SCALE_TAIL * along.sum():
+            path, along = path[:k], along[:k]
+        else:  # a jump inside: separate colours, not a path
+            return None
+    if rgb is not None and len(greys):  # ends where a grey outline or text meets the scale
+        tol = BLEND_TOLERANCE[False]
+        for _ in range(3):
+            for end, inward in ((0, slice(1, 4)), (-1, slice(-4, -1))):
+                if len(path) < 4:
+                    break
+                p_in = rgb[path[inward]]
+                starts = np.repeat(p_in, len(greys), axis=0)
+                stops = np.tile(rgb[greys], (len(p_in), 1))
+                if _segment_distance(rgb[path[end]], starts, stops, 0.0, 0.95).min() <= tol:
+                    path, along = (path[1:], along[1:]) if end == 0 else (path[:-1], along[:-1])
+    length = float(np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1)).sum())
+    if len(path) < SCALE_MIN_COLORS or length < SCALE_MIN_LENGTH:
+        return None
+    # pixels must be spread along the path, not piled on one colour
+    p = along[along > 0] / along.sum()
+    if math.exp(-(p * np.log(p)).sum()) < SCALE_MIN_SPREAD:
+        return None
+    return path, along
 
 
 def _ramp_kind(jab: np.ndarray) -> str:
@@ -470,10 +491,15 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     share = gw / plot
 
     # a scale is drawn as flat cells or a bar: only flat fill counts towards one
-    live = [k for k in range(1, len(seeds)) if gflat[k] >= (5e-4 if counts.lossy else 1e-4) * plot]
+    live = [k for k in range(1, len(seeds))
+            if gflat[k] >= (5e-4 if counts.lossy else 1e-4) * plot and gflat[k] >= 0.5 * gw[k]]
     vivid = [k for k in live if g_chroma[k] >= NEUTRAL_CHROMA]
     grey = [k for k in live if g_chroma[k] < NEUTRAL_CHROMA]
-    found = _continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius)
+    outline = np.asarray([k for k in range(len(seeds)) if g_chroma[k] < NEUTRAL_CHROMA
+                          and gflat[k] >= 0.5 * gw[k] and (k == 0 or share[k] >= PARENT_MIN_SHARE)], dtype=int)
+    found = _continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius, g_rgb, outline)
+    if found is None and len(vivid) >= SCALE_MIN_COLORS // 2:  # a diverging scale with a grey middle
+        found = _continuous(g_jab, gflat, g_chroma, 0, vivid + grey, merge_radius, g_rgb, outline)
     if found is None and len(vivid) < SCALE_MIN_COLORS:  # a grey scale
         found = _continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius)
     if found is not None:
