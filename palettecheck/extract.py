@@ -408,8 +408,10 @@ def _continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=()):
                 stops = np.tile(rgb[greys], (len(p_in), 1))
                 if _segment_distance(rgb[path[end]], starts, stops, 0.0, 0.95).min() <= tol:
                     path, along = (path[1:], along[1:]) if end == 0 else (path[:-1], along[:-1])
-    length = float(np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1)).sum())
-    if len(path) < SCALE_MIN_COLORS or length < SCALE_MIN_LENGTH:
+    steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
+    if len(path) < SCALE_MIN_COLORS or steps.sum() < SCALE_MIN_LENGTH:
+        return None
+    if np.median(steps) > 3.0 * radius:  # evenly spread distinct colours, not a smooth run
         return None
     # pixels must be spread along the path, not piled on one colour
     p = along[along > 0] / along.sum()
@@ -470,8 +472,12 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     notes = list(counts.notes)
     flat_in = counts.weights if counts.flat is None else counts.flat
     rgb, w, flat = _composite(counts.rgba, bg_rgb, counts.weights, flat_in)
+    gap = ((rgb - bg_rgb) ** 2).sum(-1) if len(rgb) else np.zeros(0)
+    if not len(gap) or gap.min() > 0.25:  # a page the image never shows (no SVG backdrop)
+        rgb, w, flat = np.vstack([rgb, bg_rgb]), np.append(w, 0.0), np.append(flat, 0.0)
+        gap = np.append(gap, 0.0)
+    bg_i = int(np.argmin(gap))
     jab = to_ucs(rgb)
-    bg_i = int(np.argmin(((rgb - bg_rgb) ** 2).sum(-1)))
     total = float(w.sum())
     # compression noise is strongest where most pixels are: around the background
     group, seeds = _group(jab, w, merge_radius, bg_i, seed_min=max(total * 2e-5, 1e-12),
