@@ -193,11 +193,13 @@ def find_background(counts: ColorCounts, fallback) -> tuple[np.ndarray, str]:
 
 
 def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: float,
-           first_radius: float | None = None):
+           first_radius: float | None = None, to_first=None):
     """Greedy grouping: colours, most frequent first, open a group unless within
-    ``radius`` of one already open (``first_radius`` of group 0, the background).
+    ``radius`` of one already open (``first_radius`` of group 0, the background;
+    colours marked in ``to_first`` join group 0 in any case).
     Returns each colour's group (-1: none near) and the seed of each group."""
     first_radius = radius if first_radius is None else first_radius
+    to_first = np.zeros(len(jab), dtype=bool) if to_first is None else to_first
     order = np.argsort(-w, kind="stable")
     order = np.concatenate(([first], order[order != first]))
     seeds = [first]
@@ -205,6 +207,8 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     for i in order[1:]:
         if w[i] < seed_min:
             break
+        if to_first[i]:
+            continue
         d = np.sqrt(((np.asarray(centres) - jab[i]) ** 2).sum(-1))
         if d.min() > radius and d[0] > first_radius:
             seeds.append(int(i))
@@ -222,6 +226,7 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     group[best > radius] = -1
     near_first = np.sqrt(((jab - centres[0]) ** 2).sum(-1)) <= first_radius
     group[near_first & (group == -1)] = 0
+    group[to_first] = 0
     group[seeds] = np.arange(len(seeds))
     return group, np.asarray(seeds)
 
@@ -480,8 +485,10 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     jab = to_ucs(rgb)
     total = float(w.sum())
     # compression noise is strongest where most pixels are: around the background
+    # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
+    noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
     group, seeds = _group(jab, w, merge_radius, bg_i, seed_min=max(total * 2e-5, 1e-12),
-                          first_radius=merge_radius * (2.0 if counts.lossy else 1.0))
+                          first_radius=merge_radius * (2.0 if counts.lossy else 1.0), to_first=noise)
     inside = group >= 0
     gw = np.bincount(group[inside], weights=w[inside], minlength=len(seeds))
     gflat = np.bincount(group[inside], weights=flat[inside], minlength=len(seeds))
