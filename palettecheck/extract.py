@@ -80,6 +80,10 @@ SCALE_TAIL = 0.002
 BLEND_TOLERANCE = {False: 4.5, True: 12.0}
 #: ... and cover at most this fraction of the weaker parent (unless mostly on edges).
 BLEND_SHARE_RATIO = 0.5
+#: In a lossless image only this many of the most frequent colours may open a group
+#: (the rest join one or are left out: a chart's marks are among its most frequent
+#: colours; in a lossy one noise spreads each mark over many rare values).
+MAX_SEED_CANDIDATES = 600
 #: Groups under this share of the non-background pixels are not used as parents.
 PARENT_MIN_SHARE = 0.0005
 
@@ -193,7 +197,7 @@ def find_background(counts: ColorCounts, fallback) -> tuple[np.ndarray, str]:
 
 
 def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: float,
-           first_radius: float | None = None, to_first=None):
+           first_radius: float | None = None, to_first=None, max_seeds: int | None = None):
     """Greedy grouping: colours, most frequent first, open a group unless within
     ``radius`` of one already open (``first_radius`` of group 0, the background;
     colours marked in ``to_first`` join group 0 in any case).
@@ -204,7 +208,7 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     order = np.concatenate(([first], order[order != first]))
     seeds = [first]
     centres = [jab[first]]
-    for i in order[1:]:
+    for i in order[1:max_seeds]:
         if w[i] < seed_min:
             break
         if to_first[i]:
@@ -270,8 +274,8 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
       half of it in flat fill) or covers at most ``BLEND_SHARE_RATIO`` of each
       chromatic parent.
     - Overlaps: a translucent mark ``p`` over another region ``q`` gives
-      ``p + s (q - background)``, s = 1 - alpha in [0.15, 0.85]. The parents must
-      be marks (mostly flat fill, colourful, away from the background), ``p`` at
+      ``p + s (q - background)``, s = 1 - alpha in [0.25, 0.85]. The parents must
+      be colourful; ``p`` a mark (mostly flat fill, away from the background) at
       least ``2 radius`` ΔE' from the colour, whatever their share: where
       translucent areas are layered, the overlaps can cover more than the marks.
     """
@@ -280,6 +284,7 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
     solid = parents[flat[parents] >= 0.5 * w[parents]]  # mostly flat fill: real marks
     solid = solid[(chroma[solid] >= NEUTRAL_CHROMA)
                   & (np.sqrt(((jab[solid] - jab[bg]) ** 2).sum(-1)) > 4.0 * radius)]
+    vivid_parents = parents[chroma[parents] >= NEUTRAL_CHROMA]
     for c in test:
         others = parents[(parents != c) & (flat[parents] > flat[c])]
         strong = np.concatenate(([bg], others))
@@ -301,7 +306,8 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
                 blend[c] = True
                 continue
         away = np.sqrt(((jab[solid] - jab[c]) ** 2).sum(-1))
-        tops, below = solid[away > 2.0 * radius], solid[away > radius]  # deep stacks change little
+        tops = solid[away > 2.0 * radius]
+        below = vivid_parents[np.sqrt(((jab[vivid_parents] - jab[c]) ** 2).sum(-1)) > radius]  # deep stacks
         if len(tops) and chroma[c] >= NEUTRAL_CHROMA and _overlap(rgb[c], rgb[tops], rgb[below], rgb[bg],
                                   BLEND_TOLERANCE[False] * (2.0 if lossy else 1.0)):
             blend[c] = True
@@ -311,13 +317,13 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
 def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray, tol: float) -> bool:
     """Is ``x`` what a translucent mark over something else looks like? Seen alone
     over the background the mark is ``p``; over a region of colour ``q`` it gives
-    ``p + s (q - bg)`` with s = 1 - alpha in [0.15, 0.85], and the mark's own colour
+    ``p + s (q - bg)`` with s = 1 - alpha in [0.25, 0.85], and the mark's own colour
     at that alpha must lie in the sRGB gamut (which rules out most chance fits)."""
     a, b = np.meshgrid(np.arange(len(tops)), np.arange(len(below)), indexing="ij")
     p, q = tops[a.ravel()], below[b.ravel()]
     d = q - bg
     dd = np.maximum((d * d).sum(-1), 1e-9)
-    s = np.clip(((x - p) * d).sum(-1) / dd, 0.15, 0.85)
+    s = np.clip(((x - p) * d).sum(-1) / dd, 0.25, 0.85)
     near = np.sqrt(((p + s[:, None] * d - x) ** 2).sum(-1)) <= tol
     # the top mark's own colour, seen as p over bg at alpha 1 - s: (p - s bg) / (1 - s)
     own = (p - s[:, None] * bg) / (1.0 - s[:, None])
@@ -488,7 +494,8 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
     noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
     group, seeds = _group(jab, w, merge_radius, bg_i, seed_min=max(total * 2e-5, 1e-12),
-                          first_radius=merge_radius * (2.0 if counts.lossy else 1.0), to_first=noise)
+                          first_radius=merge_radius * (2.0 if counts.lossy else 1.0), to_first=noise,
+                          max_seeds=None if counts.lossy else MAX_SEED_CANDIDATES)
     inside = group >= 0
     gw = np.bincount(group[inside], weights=w[inside], minlength=len(seeds))
     gflat = np.bincount(group[inside], weights=flat[inside], minlength=len(seeds))

@@ -1,0 +1,172 @@
+"""Benchmark of reading charts, printed as ratios measured side by side in one run.
+
+    python bench/bench_scan.py
+
+Targets (issue 3):
+- scanning a 3840 x 2160 chart PNG takes at most 1.3x the time Pillow takes to
+  open, decode and convert the same file to RGB;
+- the peak memory of that scan is at most 4x the size of the decoded RGB image;
+- 200 charts with ``--jobs 2`` run at least 1.7x faster than with ``--jobs 1``.
+
+Every chart is drawn here, with matplotlib, from an invented palette. Timings are
+medians of interleaved repeats, so both sides see the same machine load. The scan
+side is the library call :func:`palettecheck.scan` (read, extract, check) in one
+process; the parallel comparison runs the command line as a user would.
+"""
+
+from __future__ import annotations
+
+import os
+import shutil
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+PALETTE = ["#1b6ca8", "#e07b39", "#3a9d5d", "#c8414b", "#7b5ea7", "#b59a2a"]  # invented
+CLI = [sys.executable, "-m", "palettecheck"]
+
+
+def draw(path: Path, kind: str, seed: int, size=(12.8, 7.2), dpi=300) -> None:
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from matplotlib.figure import Figure
+
+    rng = np.random.default_rng(seed)
+    fig = Figure(figsize=size, dpi=dpi)
+    ax = fig.add_subplot()
+    if kind == "line":
+        x = np.arange(200)
+        for i, c in enumerate(PALETTE):
+            ax.plot(x, np.cumsum(rng.normal(size=200)) + 5 * i, color=c, lw=1.5, label=f"Route {i + 1}")
+        ax.grid(True, color="#dddddd")
+    elif kind == "bar":
+        bottom = np.zeros(12)
+        for i, c in enumerate(PALETTE[:4]):
+            v = rng.uniform(1, 4, 12)
+            ax.bar(np.arange(12), v, bottom=bottom, color=c, label=f"Shift {i + 1}")
+            bottom += v
+    elif kind == "scatter":
+        for i, c in enumerate(PALETTE[:4]):
+            ax.scatter(rng.normal(i, 1, 150), rng.normal(0, 1, 150), color=c, alpha=0.6, s=60,
+                       label=f"Batch {i + 1}")
+    else:
+        im = ax.imshow(rng.normal(size=(20, 30)).cumsum(axis=1), cmap="viridis")
+        fig.colorbar(im, ax=ax)
+    if kind != "heat":
+        ax.legend()
+    ax.set_title(f"Invented {kind} chart")
+    fig.savefig(path)
+
+
+def interleaved(fns, repeats: int) -> list[float]:
+    times = [[] for _ in fns]
+    for _ in range(repeats):
+        for k, fn in enumerate(fns):
+            t = time.perf_counter()
+            fn()
+            times[k].append(time.perf_counter() - t)
+    return [statistics.median(t) for t in times]
+
+
+_MEMORY_CHILD = """
+import resource, sys
+from pathlib import Path
+def rss():
+    for line in Path("/proc/self/status").read_text().splitlines():
+        if line.startswith("VmRSS:"):
+            return int(line.split()[1]) * 1024
+    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024
+what, big, small = sys.argv[1:4]
+if what == "scan":
+    import palettecheck
+    palettecheck.scan(small, jobs=1)  # imports and caches, on a small chart
+    run = lambda: palettecheck.scan(big, jobs=1)
+else:
+    from PIL import Image
+    with Image.open(small) as im:
+        im.convert("RGB")
+    def run():
+        with Image.open(big) as im:
+            im.convert("RGB")
+before = rss()
+run()
+peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024
+print(max(0, peak - before))
+"""
+
+
+def peak_growth(what: str, big: Path, small: Path) -> int:
+    out = subprocess.run([sys.executable, "-c", _MEMORY_CHILD, what, str(big), str(small)],
+                         capture_output=True, text=True, check=True)
+    return int(out.stdout.strip())
+
+
+def main() -> None:
+    from PIL import Image
+
+    import palettecheck
+
+    work = Path(tempfile.mkdtemp(prefix="palettecheck-bench-"))
+    try:
+        big, small = work / "chart-4k.png", work / "small.png"
+        draw(big, "line", 1)
+        draw(small, "line", 1, size=(3.2, 2.0), dpi=100)
+        with Image.open(big) as im:
+            w, h = im.size
+        assert (w, h) == (3840, 2160), (w, h)
+
+        def pillow():
+            with Image.open(big) as im:
+                im.convert("RGB")
+
+        def scan():
+            report = palettecheck.scan(big, jobs=1)
+            assert report.images and not report.errors
+
+        pillow(), scan()
+        t_pil, t_scan = interleaved([pillow, scan], 9)
+        print(f"4K chart PNG ({w}x{h}): Pillow open+decode+RGB {t_pil * 1e3:.0f} ms, "
+              f"scan {t_scan * 1e3:.0f} ms")
+        print(f"ratio scan / Pillow decode: {t_scan / t_pil:.2f}x (target <= 1.3x)")
+
+        rgb_bytes = w * h * 3
+        grow_scan = peak_growth("scan", big, small)
+        grow_pil = peak_growth("pillow", big, small)
+        print(f"peak memory growth: scan {grow_scan / 2**20:.0f} MiB, Pillow decode+RGB "
+              f"{grow_pil / 2**20:.0f} MiB, decoded RGB image {rgb_bytes / 2**20:.0f} MiB")
+        print(f"ratio scan peak memory / decoded RGB size: {grow_scan / rgb_bytes:.2f}x (target <= 4x)")
+
+        folder = work / "many"
+        folder.mkdir()
+        kinds = ("line", "bar", "scatter", "heat")
+        originals = []
+        for k in range(20):
+            p = work / f"original-{k}.png"
+            draw(p, kinds[k % 4], k, size=(8.0, 5.0), dpi=200)
+            originals.append(p)
+        for n in range(200):
+            shutil.copyfile(originals[n % 20], folder / f"chart-{n:03d}.png")
+
+        def cli(jobs):
+            def run():
+                subprocess.run([*CLI, "scan", str(folder), "--jobs", str(jobs), "--format", "json"],
+                               stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=False)
+            return run
+
+        t1, t2 = interleaved([cli(1), cli(2)], 5)
+        print(f"200 charts (1600x1000 PNG): --jobs 1 {t1:.2f} s, --jobs 2 {t2:.2f} s")
+        print(f"ratio --jobs 1 / --jobs 2: {t1 / t2:.2f}x faster (target >= 1.7x)")
+        print(f"(load average over the last minute: {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores; "
+              "other work on the machine slows the parallel run most)")
+    finally:
+        shutil.rmtree(work, ignore_errors=True)
+
+
+if __name__ == "__main__":
+    main()
