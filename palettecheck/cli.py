@@ -90,6 +90,15 @@ def _use_color() -> bool:
     return sys.stdout.isatty() and "NO_COLOR" not in os.environ and os.environ.get("TERM") != "dumb"
 
 
+def refuse_overwrite(output: str | None, inputs) -> None:
+    """Stop before any work when ``output`` is one of the input files."""
+    if output is None:
+        return
+    for src in inputs:
+        if os.path.exists(src) and os.path.exists(output) and os.path.samefile(src, output):
+            raise InputError(f"{output}: is an input; refusing to write over it")
+
+
 def emit(text: str, output: str | None, inputs=(), default_name: str = "report") -> None:
     """Print ``text``, or write it atomically to ``output`` (a file, or a folder)."""
     if output is None:
@@ -117,9 +126,12 @@ def cli() -> None:
 
 @cli.command("check")
 @click.argument("sources", nargs=-1, required=True)
+@click.option("--suggest", is_flag=True,
+              help="When the palette fails, work out the smallest repair and list it "
+                   "(as palettecheck fix does; takes up to a second or two).")
 @common_options
-def check_cmd(sources, backgrounds, kind, mark, severity, cvd_model, min_delta_e, print_safe, fail_under,
-              fmt, output):
+def check_cmd(sources, suggest, backgrounds, kind, mark, severity, cvd_model, min_delta_e, print_safe,
+              fail_under, fmt, output):
     """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name), a
     palette file (.txt, .json, .tokens, .css) or a chart image (.png, .jpg, .webp,
     .svg: its data colours, checked against its own background too); several
@@ -141,6 +153,10 @@ def check_cmd(sources, backgrounds, kind, mark, severity, cvd_model, min_delta_e
 
     palette, settings = prepare(palette, settings, kind, settings.backgrounds if backgrounds else ())
     result = check_palette(palette, settings)
+    if suggest and not result.passed:
+        from .repair import suggestions
+
+        result.suggestions = suggestions(result)
     stem = os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
     emit(render(result, fmt, color=_use_color() and output is None), output, sources,
          f"{stem}-check.{'json' if fmt == 'json' else 'txt'}")
@@ -257,6 +273,48 @@ for _param in generate_cmd.params:  # the palette also comes as hex, CSS or a ma
     if _param.name == "fmt":
         _param.type = click.Choice(GENERATE_FORMATS)
         _param.help = "Output: text (palette and check), json, hex, css (custom properties), matplotlib."
+
+
+@cli.command("fix")
+@click.argument("sources", nargs=-1, required=True)
+@click.option("--keep", multiple=True, metavar="COLOUR",
+              help="Lock this palette colour: it never moves (repeatable; JSON palettes may lock too).")
+@common_options
+def fix_cmd(sources, keep, fmt, output, **options):
+    """Suggest the smallest colour changes that make a palette pass. The repaired
+    palette is written in the format it came in (to --output, or stdout) and the
+    moves are explained on stderr; --format json gives everything as one object."""
+    from pathlib import Path
+
+    from .color import parse_color
+    from .readers import READERS, ReadError, read_sources
+    from .repair import RepairError, repair
+    from .report.fixes import render_fix
+    from .writers import palette_text, rewrite_source
+
+    settings = settings_from(options)
+    refuse_overwrite(output, sources)
+    try:
+        palette = read_sources(sources, parse_color(settings.backgrounds[0])[0])
+        result = repair(palette, settings, keep)
+    except (ReadError, RepairError) as e:
+        raise InputError(str(e)) from None
+    files = [Path(s) for s in sources if Path(s).suffix.lower() in READERS and Path(s).is_file()]
+    single = files[0] if len(sources) == 1 and len(files) == 1 else None
+    ext = single.suffix if single else ".txt"
+    stem = single.stem if single else "palette"
+    if fmt == "json":
+        import json
+
+        text = json.dumps(result.to_dict(), indent=2, ensure_ascii=False) + "\n"
+        ext = ".json"
+    else:
+        # the palette as it came in; a locked flag from --keep is not written back
+        fixed = palette.with_hexes(result.palette.hexes)
+        text = rewrite_source(single, palette, fixed) if single else palette_text(fixed, "text")
+        click.echo(render_fix(result, color=_use_color()), err=True, nl=False)
+    emit(text, output, sources, f"{stem}-fixed{ext}")
+    sys.exit(0 if result.passed else 1)
 
 
 def main(argv=None) -> None:

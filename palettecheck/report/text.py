@@ -75,4 +75,6 @@ def render_text(result, color: bool = False) -> str:
     if result.suggestions:
         score_lines.append("suggestions:")
         score_lines += [f"  {x['text'] if isinstance(x, dict) else x}" for x in result.suggestions]
+    elif not result.passed:
+        score_lines.append("for the smallest repair: palettecheck fix (or check --suggest)")
     return "\n".join(head + body + findings + score_lines + ["", CAUTION, ""])
