@@ -54,6 +54,7 @@ __all__ = ["GenerateError", "Generated", "sequential", "diverging", "categorical
 KINDS = ("sequential", "diverging", "categorical")
 FORMATS = ("text", "json", "hex", "css", "matplotlib")
 DEFAULT_BUDGET = 24  #: starts of the categorical search (see bench/bench_generate.py)
+_PROBE_BUDGET = 4  #: starts of each probe that explains an infeasible request
 MAX_STEPS = 64  #: most colours in a generated ramp (a continuous one: :func:`colormap`)
 #: Categorical defaults: J' band and M' floor for the free colours (our choice: no
 #: near-black or near-white colours, no greys).
@@ -66,6 +67,9 @@ FAR_LIGHTNESS = {"light": 18.0, "dark": 96.0}
 DEFAULT_SEQUENTIAL = ((45.0, 26.0, 228.0),)
 DEFAULT_DIVERGING = ((42.0, 28.0, 256.0), (45.0, 28.0, 50.0))
 _DENSE = 1200  #: path samples
+#: Ramps: colourfulness tried, as fractions of the base colours', until neighbours are
+#: apart under every vision (a CVD sees less of a ramp's chroma than of its lightness).
+_CHROMA_SCALES = (1.0, 0.8, 0.6, 0.45, 0.3)
 
 
 class GenerateError(ValueError):
@@ -87,6 +91,8 @@ class Generated:
     recipe: dict = field(default_factory=dict, repr=False)
 
     requested: int | None = None  #: colours asked for (fewer when none could be placed)
+    #: (n, 3) sRGB 0-255 before rounding to #rrggbb (ramps: inside the gamut by construction)
+    exact: np.ndarray | None = field(default=None, repr=False)
 
     @property
     def passed(self) -> bool:
@@ -138,8 +144,12 @@ def _band(lightness, default) -> tuple[float, float]:
 
 
 def _count(n: int, lo: int, hi: int, kind: str, why: str) -> int:
-    if not isinstance(n, (int, np.integer)) or not lo <= n <= hi:
-        raise GenerateError(f"-n {n}: a {kind} palette needs {lo} to {hi} colours ({why})")
+    if isinstance(n, bool) or not isinstance(n, (int, np.integer)):
+        raise GenerateError(f"-n {n!r}: the number of colours must be a whole number")
+    if n < lo:
+        raise GenerateError(f"-n {n}: a {kind} palette needs at least {lo} colours")
+    if n > hi:
+        raise GenerateError(f"-n {n}: a {kind} palette takes at most {hi} colours ({why})")
     return int(n)
 
 
@@ -396,12 +406,25 @@ def _ramp(kind, n, colors, lightness, settings):
                             f"not {len(colors)}")
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
     near, far = _ends(settings, lightness)
-    rgb, arms, paths = _ramp_colours(kind, n, anchors, near, far, settings.viewing)
-    rgb = _round_even(np.clip(rgb, 0, 255), arms, settings.viewing)
-    hexes = [to_hex(c) for c in rgb]
     recipe = {"colors": tuple(colors or ()), "lightness": None if lightness is None else tuple(lightness),
               "settings": settings}
-    gen = _finish(kind, hexes, settings, [False] * n, recipe)
+    gen = None
+    for scale in _CHROMA_SCALES:
+        scaled = [(j, m * scale, h) for j, m, h in anchors]
+        exact, arms, paths = _ramp_colours(kind, n, scaled, near, far, settings.viewing)
+        rgb = _round_even(np.clip(exact, 0, 255), arms, settings.viewing)
+        trial = _finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
+        trial.exact, trial.recipe["chroma_scale"] = exact, scale
+        if gen is None or trial.min_delta_e > gen.min_delta_e:
+            gen = trial
+        if not any(f.severity == "error" and f.check in ("distinguishable", "near-duplicate")
+                   for f in trial.check.findings):
+            gen = trial
+            break
+    scale = gen.recipe["chroma_scale"]
+    if scale < 1:
+        gen.notes.append(f"colourfulness lowered to {scale:.0%} of the base colours' so that neighbouring "
+                         "steps stay apart under every vision")
     gen.notes.append(f"lightness J' from {near:.0f} (near the background) to {far:.0f}")
     if kind == "diverging" and n % 2 == 0:
         gen.notes.append("the two middle colours share a lightness, so they print as one grey; "
@@ -458,9 +481,29 @@ def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
 # ---------------------------------------------------------------- categorical
 
 
+#: Weights of the categorical goal (see :class:`palettecheck.search.Goal`), tuned on
+#: n = 6-12 on white: a grey-view pair short of the error threshold costs 3 ΔE' of
+#: the smallest difference per ΔE' it lacks; when some pairs must merge in grey, a
+#: second pass also charges 1 per such pair, so fewer pairs carry the shortfall.
+_GREY_WEIGHT, _GREY_STEP = 3.0, 1.0
+
+
 def _goal(settings: Settings) -> Goal:
     return Goal(min_weight=1.0, softness=1.0, comfort=settings.warn_delta_e, comfort_weight=1.0,
-                grey_required=settings.error_delta_e, grey_weight=1.0)
+                grey_required=settings.error_delta_e, grey_weight=_GREY_WEIGHT)
+
+
+def _fewer_grey_merges(problem: Problem, sol, seed: int, budget: int):
+    """When pairs still merge in grey, search again from the palette found with each
+    such pair charged as well (the score counts warnings, not only their depth)."""
+    if problem.settings.print_safe or problem.n_free == 0:
+        return sol
+    g = problem.see(sol.rgb255).ucs[problem.grey_idx]
+    d = np.linalg.norm(g[:, None] - g[None, :], axis=-1)
+    if not np.any(np.triu(problem.pairs) & (d < problem.goal.grey_required)):
+        return sol
+    stepped = replace(problem, goal=replace(problem.goal, grey_step=_GREY_STEP))
+    return search(stepped, seed=seed, budget=max(2, budget // 4), start=sol.rgb255[problem.k:])
 
 
 def categorical_problem(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_MIN_CHROMA,
@@ -514,6 +557,8 @@ def categorical(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_
     """
     problem = categorical_problem(n, keep, lightness=lightness, min_chroma=min_chroma, settings=settings)
     sol = search(problem, seed=seed, budget=budget)
+    if not sol.empty_region:
+        sol = _fewer_grey_merges(problem, sol, seed, budget)
     if sol.empty_region:
         rgb = problem.fixed
         hexes = [to_hex(c) for c in rgb]
@@ -524,6 +569,7 @@ def categorical(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_
     gen = _finish("categorical", hexes, problem.settings, [True] * problem.k + [False] * (len(hexes) - problem.k),
                   recipe, seed)
     gen.requested = problem.n
+    gen.exact = np.asarray(rgb, dtype=float)
     if sol.empty_region:
         gen.explanation = [_empty_region(problem)]
     elif not gen.passed:
@@ -554,16 +600,18 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
         out.append(f"best smallest ΔE' found: {gen.min_delta_e:.1f} ({gen.colors[i]} and {gen.colors[j]} under {v}); "
                    f"{s.mark} marks need {thr:.1f}")
         probes = []
-        k = problem.k
-        for m in range(problem.n - 1, max(k, 1), -1):
-            p = categorical_problem(m, [to_hex(c) for c in problem.fixed], lightness=problem.region.lightness,
-                                    min_chroma=problem.region.min_chroma, settings=s)
-            low = search(p, seed=seed, budget=4).min_delta_e
+        free = np.array([parse_color(h)[0] for h in gen.colors[problem.k:]])  # most distinct first
+        lo, hi, fits = max(problem.k, 2), problem.n - 1, None  # bisect the count that still fits
+        while lo <= hi:
+            m = (lo + hi) // 2
+            p = Problem(s, problem.fixed, m - problem.k, problem.region, problem.goal)
+            low = search(p, seed=seed, budget=_PROBE_BUDGET, start=free[: m - problem.k]).min_delta_e
             if low >= thr:
-                probes.append(f"at most {m} colours reach {thr:.1f} under these constraints (ΔE' {low:.1f})")
-                break
-        else:
-            probes.append("even two colours fall short under these constraints")
+                fits, lo = (m, low), m + 1
+            else:
+                hi = m - 1
+        probes.append(f"about {fits[0]} colours reach {thr:.1f} under these constraints (ΔE' {fits[1]:.1f})"
+                      if fits else "even the fewest colours fall short under these constraints")
         relax = []
         if problem.region.contrast > 1:
             relax.append(("without the contrast requirement", replace(problem.region, contrast=1.0), s))
@@ -573,9 +621,9 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
             relax.append(("without the chroma floor", replace(problem.region, min_chroma=0.0), s))
         if s.print_safe:
             relax.append(("without --print-safe", problem.region, replace(s, print_safe=False)))
-        for label, region, st in relax:
+        for label, region, st in relax:  # each starts from the palette found, which stays allowed
             p = Problem(st, problem.fixed, problem.n_free, region, _goal(st))
-            low = search(p, seed=seed, budget=4).min_delta_e
+            low = search(p, seed=seed, budget=_PROBE_BUDGET, start=free).min_delta_e
             probes.append(f"{label}: ΔE' {low:.1f}")
         out.append("binding: the number of colours; " + "; ".join(probes))
     elif not out:
@@ -616,7 +664,7 @@ def generate_palette(kind: str, n: int | None = None, **options) -> Generated:
 
 def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings: Settings | None = None,
              background: str | None = None, name: str | None = None, register: bool = False,
-             resolution: int = 256):
+             resolution: int = 256, chroma_scale: float | None = None):
     """A continuous matplotlib colormap along a generated ramp's path.
 
     :param kind: ``sequential`` or ``diverging``.
@@ -624,6 +672,8 @@ def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings:
     :param background: shortcut for ``settings.backgrounds`` (the ramp runs away from it).
     :param name: the colormap's name (default ``palettecheck-<kind>``).
     :param register: also register it with matplotlib under ``name``.
+    :param chroma_scale: fraction of the base colours' colourfulness (default: as
+        the discrete ramp of 9 colours found it, lowered where a CVD needs it).
     :returns: a :class:`matplotlib.colors.ListedColormap` of ``resolution`` colours.
     """
     if kind not in ("sequential", "diverging"):
@@ -632,7 +682,10 @@ def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings:
     settings = _settings(settings, kind)
     if background is not None:
         settings = replace(settings, backgrounds=(to_hex(_colour(background, "background")),))
+    if chroma_scale is None:
+        chroma_scale = _ramp(kind, 9, colors, lightness, settings).recipe["chroma_scale"]
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
+    anchors = [(j, m * chroma_scale, h) for j, m, h in anchors]
     near, far = _ends(settings, lightness)
     rgb, _, _ = _ramp_colours(kind, int(resolution), anchors, near, far, settings.viewing)
     return _as_colormap(np.clip(rgb / 255.0, 0.0, 1.0), name or f"palettecheck-{kind}", register)

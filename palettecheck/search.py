@@ -52,10 +52,11 @@ __all__ = ["Region", "Goal", "Problem", "Solution", "search", "measure", "moveme
 #: apart). The grid only has to find the right region; polishing does the rest, and
 #: a coarse grid leaves time for more starts.
 GRID_LEVELS = 14
-_FINALISTS = 2  #: best distinct starts that are polished
+_FINALISTS = 3  #: best distinct starts that are polished
 _POLISH_RADII = (4.0, 2.0, 1.0, 0.5)  #: ΔE' radii of the polishing balls
 _POLISH_SAMPLES = 40  #: candidates per colour per polishing step
 _MAX_SWEEPS = 40
+_POLISH_SWEEPS = 40  #: per radius
 
 
 @dataclass(frozen=True)
@@ -94,13 +95,16 @@ class Goal:
               - penalty        * sum over pairs of max(0, required - d)
               - comfort_weight * sum over pairs of max(0, comfort - d)
               - grey_weight    * sum over pairs of max(0, grey_required - g)
+              - grey_step      * number of pairs with g < grey_required
               - move_weight    * sum over free colours of move_i
 
     The hard visions are the settings' visions, plus the grey view when
     ``print_safe`` is set; otherwise the grey view enters only through
     ``grey_weight``. The hinge terms mirror ``check``: a pair below ``required``
     is an error, below ``comfort`` a warning, and a grey pair below
-    ``grey_required`` a grey warning. A generator maximises the smallest
+    ``grey_required`` a grey warning (``grey_step`` prices each such warning, as
+    the score does, so the search prefers a few clear misses to many near ones). A
+    generator maximises the smallest
     difference (``min_weight`` 1); a repair minimises movement subject to the
     thresholds (``min_weight`` 0, ``required`` the error threshold,
     ``move_weight`` 1).
@@ -120,6 +124,7 @@ class Goal:
     comfort_weight: float = 0.0
     grey_required: float = 0.0
     grey_weight: float = 0.0
+    grey_step: float = 0.0
     move_weight: float = 0.0
     hue_weight: float = 1.0
 
@@ -130,6 +135,8 @@ class Goal:
             out = out - self.comfort_weight * np.maximum(0.0, self.comfort - d).sum(axis=-1)
         if g is not None and self.grey_weight:
             out = out - self.grey_weight * np.maximum(0.0, self.grey_required - g).sum(axis=-1)
+        if g is not None and self.grey_step:
+            out = out - self.grey_step * (g < self.grey_required).sum(axis=-1)
         return out
 
 
@@ -183,7 +190,7 @@ class Problem:
         self.pairs = (self.pairs | self.pairs.T) & ~np.eye(n, dtype=bool)
         s = self.settings
         self.hard = tuple(dict.fromkeys((*s.visions, *(("achromatopsia",) if s.print_safe else ()))))
-        soft = () if s.print_safe or self.goal.grey_weight == 0 else ("achromatopsia",)
+        soft = () if s.print_safe or not (self.goal.grey_weight or self.goal.grey_step) else ("achromatopsia",)
         self.visions = tuple(dict.fromkeys(("normal", *self.hard, *soft)))
         self.hard_idx = [self.visions.index(v) for v in self.hard]
         self.grey_idx = self.visions.index("achromatopsia") if soft else None
@@ -382,22 +389,38 @@ def _ball(rng, center: np.ndarray, radius: float, count: int) -> np.ndarray:
     return center + x
 
 
+def _ball_candidates(state: _State, rng, radius: float) -> dict:
+    """For every free slot, in-gamut ``#rrggbb`` candidates sampled in a CAM02-UCS ball
+    around its colour and allowed by the region, seen in one batch: slot -> Seen."""
+    p = state.p
+    slots = np.arange(p.k, p.n)
+    pts = np.concatenate([_ball(rng, state.seen.jab[i], radius, _POLISH_SAMPLES) for i in slots])
+    owner = np.repeat(slots, _POLISH_SAMPLES)
+    with np.errstate(invalid="ignore"):  # NaN far outside the gamut: dropped here
+        rgb = from_ucs(pts, p.settings.viewing)
+        ok = np.all((rgb > -0.5) & (rgb < 255.5), axis=1)
+    rgb, owner = np.round(rgb[ok]), owner[ok]
+    if not len(rgb):
+        return {}
+    seen_all = p.see(rgb)
+    allowed = p.region.allows(seen_all.jab, seen_all.contrast)
+    out = {}
+    for i in slots:
+        idx = np.flatnonzero((owner == i) & allowed & np.any(rgb != state.seen.rgb[i], axis=1))
+        if len(idx):
+            out[int(i)] = seen_all.take(idx)
+    return out
+
+
 def _polish(state: _State, rng, counter: list) -> _State:
     p = state.p
     for radius in _POLISH_RADII:
-        for _ in range(_MAX_SWEEPS):
+        for _ in range(_POLISH_SWEEPS):
             improved = False
+            cands_by_slot = _ball_candidates(state, rng, radius)  # a slot's ball moves only with it
             for slot in p.k + rng.permutation(p.n_free):
-                with np.errstate(invalid="ignore"):  # NaN far outside the gamut: dropped below
-                    rgb = from_ucs(_ball(rng, state.seen.jab[slot], radius, _POLISH_SAMPLES), p.settings.viewing)
-                    ok = np.all((rgb > -0.5) & (rgb < 255.5), axis=1)
-                rgb = np.unique(np.round(rgb[ok]), axis=0)
-                rgb = rgb[np.any(rgb != state.seen.rgb[slot], axis=1)]
-                if not len(rgb):
-                    continue
-                cands = p.see(rgb)
-                cands = cands.take(p.region.allows(cands.jab, cands.contrast))
-                if not len(cands):
+                cands = cands_by_slot.get(int(slot))
+                if cands is None:
                     continue
                 vals = state.score_slot(slot, cands)
                 counter[0] += len(cands)
