@@ -60,8 +60,12 @@ DEFAULT_MIN_SHARE = 0.002
 #: Below this CAM02-UCS colourfulness M' (= sqrt(a'² + b'²)) a colour reads as grey
 #: and is treated as text, axis or grid (practical choice, no source).
 NEUTRAL_CHROMA = 5.0
-#: Most steps reported for a continuous scale.
+#: Most steps reported for a continuous scale ...
 RAMP_STEPS = 9
+#: ... spaced at least this far apart in ΔE' along it (about two and a half times the
+#: 50 %-noticeable difference for areas, so the steps checked are steps a reader
+#: would pick out of a legend; practical choice).
+RAMP_SPACING = 16.0
 #: A continuous scale needs at least this many merged colours along its path ...
 SCALE_MIN_COLORS = 8
 #: ... a path at least this long in ΔE' ...
@@ -419,6 +423,19 @@ def _continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=()):
                 stops = np.tile(rgb[greys], (len(p_in), 1))
                 if _segment_distance(rgb[path[end]], starts, stops, 0.0, 0.95).min() <= tol:
                     path, along = (path[1:], along[1:]) if end == 0 else (path[:-1], along[:-1])
+    # a faint end that turns lightness back, or greys where the scale is colourful,
+    # is text or an outline meeting the scale
+    for _ in range(4):
+        if len(path) < 4:
+            break
+        j, c, faint = jab[path, 0], chroma[path], along < 5 * SCALE_TAIL * along.sum()
+        greyer = (c[[0, -1]] < 2 * NEUTRAL_CHROMA) & (np.median(c) > 2 * c[[0, -1]])
+        if faint[0] and ((j[1] - j[0]) * (j[-1] - j[1]) < 0 or greyer[0]):
+            path, along = path[1:], along[1:]
+        elif faint[-1] and ((j[-1] - j[-2]) * (j[-2] - j[0]) < 0 or greyer[1]):
+            path, along = path[:-1], along[:-1]
+        else:
+            break
     steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
     if len(path) < SCALE_MIN_COLORS or steps.sum() < SCALE_MIN_LENGTH:
         return None
@@ -450,20 +467,37 @@ def _ramp_kind(jab: np.ndarray) -> str:
     return "sequential"
 
 
-def _sample_path(jab, rgb, path, along, bg_jab):
-    """Evenly spaced steps (by ΔE' along the path), oriented away from the background."""
+def _sample_path(jab, path, along, bg_jab):
+    """Steps along a scale's path, evenly spaced by ΔE', and its kind.
+
+    A sequential scale starts at the end nearest the background. A diverging one
+    is sampled arm by arm with the same number of steps, so its light (or dark)
+    middle is the middle step."""
+    path, along = np.asarray(path), np.asarray(along, dtype=float)
     steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
     arc = np.concatenate(([0.0], np.cumsum(steps)))
-    length = arc[-1]
-    n = int(min(RAMP_STEPS, max(3, length // 12 + 1)))
     if np.sum((jab[path[-1]] - bg_jab) ** 2) < np.sum((jab[path[0]] - bg_jab) ** 2):
-        path, along, arc = path[::-1], along[::-1], length - arc[::-1]
-    targets = np.linspace(0.0, length, n)
-    pick = np.unique([int(np.argmin(np.abs(arc - t))) for t in targets])
+        path, along, arc = path[::-1], along[::-1], arc[-1] - arc[::-1]
+
+    def pick_between(a: float, b: float, n: int) -> list[int]:
+        return [int(np.argmin(np.abs(arc - t))) for t in np.linspace(a, b, n)]
+
+    dense = pick_between(0.0, arc[-1], RAMP_STEPS)
+    kind = _ramp_kind(jab[path[dense]])
+    if kind == "diverging":
+        j = jab[path, 0]
+        inner = j[1:-1]
+        mid = 1 + int(np.argmax(inner) if inner.max() - max(j[0], j[-1]) > min(j[0], j[-1]) - inner.min()
+                      else np.argmin(inner))
+        k = int(min((RAMP_STEPS - 1) // 2, max(2, max(arc[mid], arc[-1] - arc[mid]) // RAMP_SPACING)))
+        pick = pick_between(0.0, arc[mid], k + 1) + pick_between(arc[mid], arc[-1], k + 1)[1:]
+    else:
+        pick = pick_between(0.0, arc[-1], int(min(RAMP_STEPS, max(3, arc[-1] // RAMP_SPACING + 1))))
+    pick = list(dict.fromkeys(pick))
     # each path colour's pixels go to the nearest picked step
     owner = np.argmin(np.abs(arc[:, None] - arc[pick][None, :]), axis=1)
     share = np.bincount(owner, weights=along, minlength=len(pick))
-    return [path[k] for k in pick], share
+    return [int(path[k]) for k in pick], share, kind
 
 
 def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, source: str = "",
@@ -524,8 +558,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
         found = _continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius)
     if found is not None:
         path, along = found
-        picked, pshare = _sample_path(g_jab, g_rgb, np.asarray(path), along, g_jab[0])
-        kind = _ramp_kind(g_jab[picked])
+        picked, pshare, kind = _sample_path(g_jab, path, along, g_jab[0])
         colors = tuple((to_hex(g_rgb[k]), float(s / plot)) for k, s in zip(picked, pshare))
         on_path = set(int(k) for k in path)
         neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)
