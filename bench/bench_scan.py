@@ -75,13 +75,12 @@ def interleaved(fns, repeats: int) -> list[float]:
 
 
 _MEMORY_CHILD = """
-import resource, sys
+import sys
 from pathlib import Path
-def rss():
+def status(key):  # kB figures of this process's own address space
     for line in Path("/proc/self/status").read_text().splitlines():
-        if line.startswith("VmRSS:"):
+        if line.startswith(key + ":"):
             return int(line.split()[1]) * 1024
-    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024
 what, big, small = sys.argv[1:4]
 if what == "scan":
     import palettecheck
@@ -94,11 +93,12 @@ else:
     def run():
         with Image.open(big) as im:
             im.convert("RGB")
-before = rss()
+before = status("VmRSS")
 run()
-peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024
-print(max(0, peak - before))
+print(max(0, status("VmHWM") - before))
 """
+# VmHWM, not getrusage's ru_maxrss: Linux carries the parent's high-water mark
+# across fork and exec into ru_maxrss, which would charge the parent's memory here.
 
 
 def peak_growth(what: str, big: Path, small: Path) -> int:
