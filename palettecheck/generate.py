@@ -350,16 +350,28 @@ def _side(settings: Settings) -> tuple[str, float]:
     return ("light" if room_down >= room_up else "dark"), j_bg
 
 
-def _ends(settings: Settings, lightness) -> tuple[float, float]:
-    """(near, far) J' of a ramp: near the background's end, far the other."""
+#: Ramp layouts tried in turn without --lightness: the near end this many error
+#: thresholds (ΔE') off the page, and the far end moved this much further out (J').
+_LAYOUTS = ((2.0, 0.0), (1.5, 0.0), (1.25, 6.0))
+
+
+def _ends(settings: Settings, lightness) -> list[tuple[float, float]]:
+    """(near, far) J' pairs to try for a ramp: near the background's end, far the
+    other; the first is the most comfortable, the later ones longer."""
     side, j_bg = _side(settings)
     if lightness is not None:
         lo, hi = _band(lightness, None)
-        return (hi, lo) if side == "light" else (lo, hi)
-    gap = settings.comfort_factor * settings.error_delta_e  # near end comfortably off the page
-    if side == "light":
-        return max(min(j_bg - gap, 97.0), FAR_LIGHTNESS["light"] + 5), FAR_LIGHTNESS["light"]
-    return min(max(j_bg + gap, 3.0), FAR_LIGHTNESS["dark"] - 5), FAR_LIGHTNESS["dark"]
+        return [(hi, lo) if side == "light" else (lo, hi)]
+    out = []
+    for factor, extra in _LAYOUTS:
+        gap = factor * settings.error_delta_e
+        if side == "light":
+            far = FAR_LIGHTNESS["light"] - extra
+            out.append((max(min(j_bg - gap, 97.0), far + 5), far))
+        else:
+            far = min(99.0, FAR_LIGHTNESS["dark"] + extra / 2)
+            out.append((min(max(j_bg + gap, 3.0), far - 5), far))
+    return out
 
 
 def _anchors(colors, default, viewing) -> list[tuple[float, float, float]]:
@@ -405,22 +417,25 @@ def _ramp(kind, n, colors, lightness, settings):
         raise GenerateError(f"--from: a {kind} ramp takes {'two colours' if kind == 'diverging' else 'one or two colours'}, "
                             f"not {len(colors)}")
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
-    near, far = _ends(settings, lightness)
-    recipe = {"colors": tuple(colors or ()), "lightness": None if lightness is None else tuple(lightness),
-              "settings": settings}
-    gen = None
-    for scale in _CHROMA_SCALES:
-        scaled = [(j, m * scale, h) for j, m, h in anchors]
-        exact, arms, paths = _ramp_colours(kind, n, scaled, near, far, settings.viewing)
-        rgb = _round_even(np.clip(exact, 0, 255), arms, settings.viewing)
-        trial = _finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
-        trial.exact, trial.recipe["chroma_scale"] = exact, scale
-        if gen is None or trial.min_delta_e > gen.min_delta_e:
-            gen = trial
-        if not any(f.severity == "error" and f.check in ("distinguishable", "near-duplicate")
-                   for f in trial.check.findings):
-            gen = trial
+    gen, done = None, False
+    for near, far in _ends(settings, lightness):
+        for scale in _CHROMA_SCALES:
+            scaled = [(j, m * scale, h) for j, m, h in anchors]
+            exact, arms, paths = _ramp_colours(kind, n, scaled, near, far, settings.viewing)
+            rgb = _round_even(np.clip(exact, 0, 255), arms, settings.viewing)
+            recipe = {"colors": tuple(colors or ()), "lightness": (min(near, far), max(near, far)),
+                      "settings": settings, "chroma_scale": scale}
+            trial = _finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
+            trial.exact = exact
+            if gen is None or trial.min_delta_e > gen.min_delta_e:
+                gen, shape = trial, (near, far, paths)
+            if not any(f.severity == "error" and f.check in ("distinguishable", "near-duplicate")
+                       for f in trial.check.findings):
+                gen, shape, done = trial, (near, far, paths), True
+                break
+        if done:
             break
+    near, far, paths = shape
     scale = gen.recipe["chroma_scale"]
     if scale < 1:
         gen.notes.append(f"colourfulness lowered to {scale:.0%} of the base colours' so that neighbouring "
@@ -672,8 +687,8 @@ def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings:
     :param background: shortcut for ``settings.backgrounds`` (the ramp runs away from it).
     :param name: the colormap's name (default ``palettecheck-<kind>``).
     :param register: also register it with matplotlib under ``name``.
-    :param chroma_scale: fraction of the base colours' colourfulness (default: as
-        the discrete ramp of 9 colours found it, lowered where a CVD needs it).
+    :param chroma_scale: fraction of the base colours' colourfulness (default, and
+        the J' span when ``lightness`` is None: as a 9-colour ramp settles them).
     :returns: a :class:`matplotlib.colors.ListedColormap` of ``resolution`` colours.
     """
     if kind not in ("sequential", "diverging"):
@@ -682,11 +697,13 @@ def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings:
     settings = _settings(settings, kind)
     if background is not None:
         settings = replace(settings, backgrounds=(to_hex(_colour(background, "background")),))
-    if chroma_scale is None:
-        chroma_scale = _ramp(kind, 9, colors, lightness, settings).recipe["chroma_scale"]
+    if chroma_scale is None or lightness is None:
+        probe = _ramp(kind, 9, colors, lightness, settings).recipe
+        chroma_scale = probe["chroma_scale"] if chroma_scale is None else chroma_scale
+        lightness = probe["lightness"]
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
     anchors = [(j, m * chroma_scale, h) for j, m, h in anchors]
-    near, far = _ends(settings, lightness)
+    [(near, far)] = _ends(settings, lightness)
     rgb, _, _ = _ramp_colours(kind, int(resolution), anchors, near, far, settings.viewing)
     return _as_colormap(np.clip(rgb / 255.0, 0.0, 1.0), name or f"palettecheck-{kind}", register)
 
