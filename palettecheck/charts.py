@@ -317,7 +317,7 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
 
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=dpi or fig.dpi)
-    label = f"<figure {getattr(fig, 'number', None) or id(fig):}>"
+    label = "<figure>"
     im = open_image_bytes(buf.getvalue(), label)
     try:
         counts = counts_from_image(im)

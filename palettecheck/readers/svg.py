@@ -354,10 +354,9 @@ class _Painter:
         total = counts.weights.sum()
         if area <= 0 or total <= 0:
             return
-        scale = area * opacity / total
-        for rgba, w in zip(counts.rgba, counts.weights):
-            self.colors.append(tuple(rgba[:3]) + (rgba[3] * opacity,))
-            self.weights.append(w * scale / max(opacity, 1e-9))
+        for rgba, w in zip(counts.rgba, counts.weights):  # pixels -> the area they are shown on
+            self.colors.append((*rgba[:3], rgba[3] * opacity))
+            self.weights.append(w * area / total)
 
 
 def _opacity(text) -> float:
