@@ -13,6 +13,8 @@ _RANK = {"error": 0, "warning": 1}
 def main_problem(check) -> str:
     """The first error, else the first warning, of a chart's check; '-' when none."""
     found = [f for f in check.result.findings if f.severity in _RANK]
+    if not found and not check.reading.colors:
+        return "nothing to check: no data colours found (only the background and greys)"
     if not found:
         return "-"
     f = min(found, key=lambda f: _RANK[f.severity])
