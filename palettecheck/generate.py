@@ -21,10 +21,11 @@ both arms have the same steps.
 Categorical
 -----------
 :func:`palettecheck.search.search` maximises the smallest ΔE' over the settings'
-visions (and the grey view when ``print_safe``), softly (a smooth minimum), with
-small secondary terms for pairs below the comfortable margin and pairs that merge
-in grey, next to kept colours, within a J' band, above an M' floor and at the
-required WCAG contrast against every background. The result is ordered so that the
+visions (and the grey view when ``print_safe``), softly (a smooth minimum), next to
+kept colours, within a J' band, above an M' floor and at the required WCAG contrast
+against every background. Secondary terms mirror the score: a steep cost for pairs
+below the error threshold (never traded away), smaller ones for pairs below the
+comfortable margin and pairs that merge in grey. The result is ordered so that the
 colours used first differ most.
 
 References
@@ -497,15 +498,24 @@ def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
 
 
 #: Weights of the categorical goal (see :class:`palettecheck.search.Goal`), tuned on
-#: n = 6-12 on white: a grey-view pair short of the error threshold costs 3 ΔE' of
-#: the smallest difference per ΔE' it lacks; when some pairs must merge in grey, a
-#: second pass also charges 1 per such pair, so fewer pairs carry the shortfall.
-_GREY_WEIGHT, _GREY_STEP = 3.0, 1.0
+#: n = 6-16 on white. A pair below the error threshold under some vision costs 10 ΔE'
+#: of the smallest difference and 30 more per ΔE' it lacks, so nothing is traded for an
+#: error; a
+#: grey-view pair short of the error threshold costs 3, a pair short of the
+#: comfortable margin 1; when some pairs must merge in grey, a second pass also
+#: charges 1 per such pair, so fewer pairs carry the shortfall (the score counts them).
+_ERROR_STEP, _ERROR_PENALTY, _GREY_WEIGHT, _GREY_STEP = 10.0, 30.0, 3.0, 1.0
 
 
 def _goal(settings: Settings) -> Goal:
-    return Goal(min_weight=1.0, softness=1.0, comfort=settings.warn_delta_e, comfort_weight=1.0,
+    return Goal(min_weight=1.0, softness=1.0, required=settings.error_delta_e, penalty=_ERROR_PENALTY,
+                required_step=_ERROR_STEP, comfort=settings.warn_delta_e, comfort_weight=1.0,
                 grey_required=settings.error_delta_e, grey_weight=_GREY_WEIGHT)
+
+
+def _widest(settings: Settings) -> Goal:
+    """Only the smallest difference: what the explanation of an infeasible request reports."""
+    return Goal(min_weight=1.0, softness=1.0)
 
 
 def _fewer_grey_merges(problem: Problem, sol, seed: int, budget: int):
@@ -574,6 +584,12 @@ def categorical(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_
     sol = search(problem, seed=seed, budget=budget)
     if not sol.empty_region:
         sol = _fewer_grey_merges(problem, sol, seed, budget)
+        if sol.min_delta_e < problem.settings.error_delta_e:  # errors left: the widest palette instead
+            wide = Problem(problem.settings, problem.fixed, problem.n_free, problem.region,
+                           _widest(problem.settings))
+            alt = search(wide, seed=seed, budget=budget, start=sol.rgb255[problem.k:])
+            if alt.min_delta_e > sol.min_delta_e:
+                sol = alt
     if sol.empty_region:
         rgb = problem.fixed
         hexes = [to_hex(c) for c in rgb]
@@ -619,7 +635,7 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
         lo, hi, fits = max(problem.k, 2), problem.n - 1, None  # bisect the count that still fits
         while lo <= hi:
             m = (lo + hi) // 2
-            p = Problem(s, problem.fixed, m - problem.k, problem.region, problem.goal)
+            p = Problem(s, problem.fixed, m - problem.k, problem.region, _widest(s))
             low = search(p, seed=seed, budget=_PROBE_BUDGET, start=free[: m - problem.k]).min_delta_e
             if low >= thr:
                 fits, lo = (m, low), m + 1
@@ -627,20 +643,25 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
                 hi = m - 1
         probes.append(f"about {fits[0]} colours reach {thr:.1f} under these constraints (ΔE' {fits[1]:.1f})"
                       if fits else "even the fewest colours fall short under these constraints")
+        r = problem.region
         relax = []
-        if problem.region.contrast > 1:
-            relax.append(("without the contrast requirement", replace(problem.region, contrast=1.0), s))
-        if problem.region.lightness != (0.0, 100.0):
-            relax.append(("with the full J' range", replace(problem.region, lightness=(0.0, 100.0)), s))
-        if problem.region.min_chroma > 0:
-            relax.append(("without the chroma floor", replace(problem.region, min_chroma=0.0), s))
+        if r.contrast > 1:
+            relax.append(("the contrast requirement", "without it", replace(r, contrast=1.0), s))
+        if r.lightness != (0.0, 100.0):
+            relax.append((f"the J' band {r.lightness[0]:g}-{r.lightness[1]:g}", "with the full J' range",
+                          replace(r, lightness=(0.0, 100.0)), s))
+        if r.min_chroma > 0:
+            relax.append((f"the chroma floor M' {r.min_chroma:g}", "without it", replace(r, min_chroma=0.0), s))
         if s.print_safe:
-            relax.append(("without --print-safe", problem.region, replace(s, print_safe=False)))
-        for label, region, st in relax:  # each starts from the palette found, which stays allowed
-            p = Problem(st, problem.fixed, problem.n_free, region, _goal(st))
+            relax.append(("--print-safe", "without it", r, replace(s, print_safe=False)))
+        gains = []
+        for what, label, region, st in relax:  # each starts from the palette found, which stays allowed
+            p = Problem(st, problem.fixed, problem.n_free, region, _widest(st))
             low = search(p, seed=seed, budget=_PROBE_BUDGET, start=free).min_delta_e
-            probes.append(f"{label}: ΔE' {low:.1f}")
-        out.append("binding: the number of colours; " + "; ".join(probes))
+            gains.append((low, what, f"{what}: {label} ΔE' {low:.1f}"))
+        reach = [g for g in gains if g[0] >= thr]
+        binding = f"{max(reach)[1]} (relaxing it helps most)" if reach else "the number of colours"
+        out.append(f"binding: {binding}. Ways out: " + "; ".join(probes + [g[2] for g in gains]))
     elif not out:
         out = [f"the palette fails: {f.message}" for f in errors]
     if gen.check.score.value < s.fail_under:

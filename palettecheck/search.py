@@ -93,6 +93,7 @@ class Goal:
 
         value = min_weight * softmin over pairs of d
               - penalty        * sum over pairs of max(0, required - d)
+              - required_step  * number of pairs with d < required
               - comfort_weight * sum over pairs of max(0, comfort - d)
               - grey_weight    * sum over pairs of max(0, grey_required - g)
               - grey_step      * number of pairs with g < grey_required
@@ -120,6 +121,7 @@ class Goal:
     softness: float = 0.0
     required: float = 0.0
     penalty: float = 1000.0
+    required_step: float = 0.0
     comfort: float = 0.0
     comfort_weight: float = 0.0
     grey_required: float = 0.0
@@ -131,6 +133,8 @@ class Goal:
     def pair_terms(self, d: np.ndarray, g: np.ndarray | None) -> np.ndarray:
         """The hinge terms of pairs, summed over the last axis (``d``, ``g`` alike)."""
         out = -self.penalty * np.maximum(0.0, self.required - d).sum(axis=-1)
+        if self.required_step:
+            out = out - self.required_step * (d < self.required).sum(axis=-1)
         if self.comfort_weight:
             out = out - self.comfort_weight * np.maximum(0.0, self.comfort - d).sum(axis=-1)
         if g is not None and self.grey_weight:
