@@ -40,7 +40,8 @@ def process(args: list[str], repeats: int = 3) -> float:
     times = []
     for _ in range(repeats):
         t = time.perf_counter()
-        subprocess.run([*cmd, "generate", *args], stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=False)
+        subprocess.run([*cmd, "generate", *args], stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+                       check=False)
         times.append(time.perf_counter() - t)
     return statistics.median(times)
 

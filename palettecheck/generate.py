@@ -41,10 +41,10 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from .checks import pair_indices, seen
 from .color import ColorError, Palette, Swatch, parse_color, to_hex
 from .config import Settings
 from .judge import CheckResult, check_palette
-from .checks import pair_indices, seen
 from .perceive import SRGB_VIEWING, from_ucs, to_ucs
 from .search import Goal, Problem, Region, search
 
@@ -90,7 +90,6 @@ class Generated:
     notes: list[str] = field(default_factory=list)
     seed: int | None = None
     recipe: dict = field(default_factory=dict, repr=False)
-
     requested: int | None = None  #: colours asked for (fewer when none could be placed)
     #: (n, 3) sRGB 0-255 before rounding to #rrggbb (ramps: inside the gamut by construction)
     exact: np.ndarray | None = field(default=None, repr=False)
@@ -132,7 +131,7 @@ def _colour(text: str, what: str) -> np.ndarray:
         raise GenerateError(f"{what}: {e}") from None
     if alpha < 1:
         raise GenerateError(f"{what}: {text!r} is translucent; give an opaque colour")
-    return np.round(np.array(rgb, dtype=float))
+    return np.array(parse_color(to_hex(rgb))[0])  # rounded as #rrggbb rounds
 
 
 def _band(lightness, default) -> tuple[float, float]:
@@ -413,10 +412,9 @@ def _ramp(kind, n, colors, lightness, settings):
     lo = 2 if kind == "sequential" else 3
     n = _count(n, lo, MAX_STEPS, kind, f"more steps than {MAX_STEPS} are a continuous colormap: "
                                      "use palettecheck.colormap")
-    want = 2 if kind == "diverging" else (1, 2)
-    if colors and len(colors) not in ((want,) if isinstance(want, int) else want):
-        raise GenerateError(f"--from: a {kind} ramp takes {'two colours' if kind == 'diverging' else 'one or two colours'}, "
-                            f"not {len(colors)}")
+    allowed, words = ((2,), "two colours") if kind == "diverging" else ((1, 2), "one or two colours")
+    if colors and len(colors) not in allowed:
+        raise GenerateError(f"--from: a {kind} ramp takes {words}, not {len(colors)}")
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
     gen, done = None, False
     for near, far in _ends(settings, lightness):
@@ -478,10 +476,11 @@ def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
         v = min(lengths, key=lengths.get)
         steps = int(lengths[v] // s.error_delta_e)
         most = steps + 1 if gen.kind == "sequential" else 2 * steps + 1
-        out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under every "
-                   f"vision, but the J' band {min(near, far):.0f}-{max(near, far):.0f} is only about "
-                   f"{lengths[v]:.0f} ΔE' long{' per arm' if gen.kind == 'diverging' else ''} under {v}: at most "
-                   f"about {most} colours fit (smallest step now {gen.min_delta_e:.1f}); use fewer colours or widen --lightness")
+        arm = " per arm" if gen.kind == "diverging" else ""
+        out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under "
+                   f"every vision, but the J' band {min(near, far):.0f}-{max(near, far):.0f} is only about "
+                   f"{lengths[v]:.0f} ΔE' long{arm} under {v}: at most about {most} colours fit (smallest "
+                   f"step now {gen.min_delta_e:.1f}); use fewer colours or widen --lightness")
     if "contrast" in errors:
         for f in gen.check.findings:
             if f.check == "contrast":
@@ -628,8 +627,8 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
                        "the colour is always labelled")
     if gen.min_delta_e < thr and not out:
         i, j, v = gen.worst
-        out.append(f"best smallest ΔE' found: {gen.min_delta_e:.1f} ({gen.colors[i]} and {gen.colors[j]} under {v}); "
-                   f"{s.mark} marks need {thr:.1f}")
+        out.append(f"best smallest ΔE' found: {gen.min_delta_e:.1f} ({gen.colors[i]} and {gen.colors[j]} "
+                   f"under {v}); {s.mark} marks need {thr:.1f}")
         probes = []
         free = np.array([parse_color(h)[0] for h in gen.colors[problem.k:]])  # most distinct first
         lo, hi, fits = max(problem.k, 2), problem.n - 1, None  # bisect the count that still fits
@@ -747,7 +746,8 @@ def _summary(gen: Generated) -> str:
     verdict = "passes" if gen.passed else "fails"
     if gen.requested is not None and len(gen.colors) < gen.requested:
         verdict = f"incomplete ({len(gen.colors)} of {gen.requested} colours)"
-    return f"score {c.score.value}/100, {verdict} check ({gen.kind}, {c.settings.mark} marks, {', '.join(c.settings.backgrounds)})"
+    where = f"{gen.kind}, {c.settings.mark} marks, {', '.join(c.settings.backgrounds)}"
+    return f"score {c.score.value}/100, {verdict} check ({where})"
 
 
 def render_generated(gen: Generated, fmt: str, color: bool = False) -> str:
@@ -765,7 +765,8 @@ def render_generated(gen: Generated, fmt: str, color: bool = False) -> str:
     if fmt == "css":
         body = [f"  --{gen.kind}-{i + 1}: {h};" for i, h in enumerate(gen.colors)]
         notes = "".join(f"\n   {line}" for line in gen.explanation)
-        return f"/* {gen.kind} palette from palettecheck: {summary}{notes} */\n:root {{\n" + "\n".join(body) + "\n}\n"
+        head = f"/* {gen.kind} palette from palettecheck: {summary}{notes} */"
+        return head + "\n:root {\n" + "\n".join(body) + "\n}\n"
     if fmt == "matplotlib":
         cols = ", ".join(f'"{h}"' for h in gen.colors)
         head = [f"# {gen.kind} palette from palettecheck: {summary}"] + [f"# {line}" for line in gen.explanation]

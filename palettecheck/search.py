@@ -8,8 +8,8 @@ to maximise (:class:`Goal`). :func:`search` returns the best palette it found.
 Every distance is the one ``check`` measures: ΔE' in CAM02-UCS [Luo2006] between
 colours simulated for each vision and measured by :func:`palettecheck.checks.seen`
 (the settings' severity, CVD model and viewing conditions), on colours rounded to
-``#rrggbb``. So a palette the search scores as passing is scored the
-same by :func:`palettecheck.judge.check_palette`.
+``#rrggbb``. So a palette the search scores as passing is scored the same by
+:func:`palettecheck.judge.check_palette`.
 
 Method
 ------
@@ -23,9 +23,10 @@ Method
 3. Restarts: ``budget`` is the number of starts. The first is the given start (or a
    greedy farthest-point start); then seeded random draws alternate with
    perturbations of the best palette so far.
-4. Polish: the same step with candidates sampled in a ball around each free colour
-   in CAM02-UCS (radius shrinking), converted back to sRGB and rounded. Candidates
-   outside the gamut are dropped, never clipped.
+4. Polish: the best few distinct results take the same step with candidates
+   sampled in a ball around each free colour in CAM02-UCS (radius shrinking),
+   converted back to sRGB and rounded; candidates outside the gamut are dropped,
+   never clipped. The best polished palette is returned.
 
 References
 ----------
@@ -55,8 +56,8 @@ GRID_LEVELS = 14
 _FINALISTS = 3  #: best distinct starts that are polished
 _POLISH_RADII = (4.0, 2.0, 1.0, 0.5)  #: ΔE' radii of the polishing balls
 _POLISH_SAMPLES = 40  #: candidates per colour per polishing step
-_MAX_SWEEPS = 40
-_POLISH_SWEEPS = 40  #: per radius
+_MAX_SWEEPS = 40  #: coordinate-ascent sweeps per start, at most
+_POLISH_SWEEPS = 40  #: polishing sweeps per radius, at most
 
 
 @dataclass(frozen=True)
@@ -103,12 +104,11 @@ class Goal:
     ``print_safe`` is set; otherwise the grey view enters only through
     ``grey_weight``. The hinge terms mirror ``check``: a pair below ``required``
     is an error, below ``comfort`` a warning, and a grey pair below
-    ``grey_required`` a grey warning (``grey_step`` prices each such warning, as
-    the score does, so the search prefers a few clear misses to many near ones). A
-    generator maximises the smallest
-    difference (``min_weight`` 1); a repair minimises movement subject to the
-    thresholds (``min_weight`` 0, ``required`` the error threshold,
-    ``move_weight`` 1).
+    ``grey_required`` a grey warning; the step terms price each such pair, as the
+    score does, so the search prefers a few clear misses to many near ones. A
+    generator maximises the smallest difference (``min_weight`` 1); a repair
+    minimises movement subject to the thresholds (``min_weight`` 0, ``required``
+    the error threshold, ``move_weight`` 1).
 
     :param softness: τ of the smooth minimum -τ·log Σ exp(-d/τ) (ΔE' units; 0: the
         plain minimum). A smooth minimum counts every pair near the smallest, so

@@ -136,10 +136,9 @@ def test_categorical_eight_near_best_and_beats_random(eight):
 
     Silver figures (seed 0): default budget (24 starts) 20.64; 20x budget (480
     starts) 20.08 -- the goal also keeps grey-view pairs apart, so a larger budget
-    need not raise the minimum; over seeds 0-11 the default run stayed at or above
-    97.7 % of the better 20x run of seeds 0-1, 20.33); best of 200 random draws from
-    the same constrained gamut
-    (J' 20-95, M' >= 10, 3:1 on white) 8.60, median 2.77.
+    need not raise the minimum. Over seeds 0-11 the default run stayed at or above
+    97.7 % of the better 20x run of seeds 0-1 (20.33). Best of 200 random draws from
+    the same constrained gamut (J' 20-95, M' >= 10, 3:1 on white): 8.60, median 2.77.
     """
     gen, big = eight
     assert gen.min_delta_e >= 0.95 * big.min_delta_e
