@@ -7,6 +7,7 @@ threshold (0-1), which the score uses to grade the deduction.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -85,6 +86,22 @@ def _name(p: Perceived, i: int) -> str:
     return p.palette[i].label
 
 
+def _below(value: float, threshold: float) -> str:
+    """A value that fails ``threshold``, with enough decimals that it never prints as
+    reaching it: 3.3 against 6.1, but 10.41 against 10.42."""
+    for digits in (1, 2, 3):
+        if round(value, digits) < round(threshold, digits):
+            return f"{value:.{digits}f}"
+    return f"{value:.3f}"
+
+
+def _digits(shown: str) -> int:
+    """Decimals of the longest number in ``shown`` (so a threshold matches its values)."""
+    import re
+
+    return max([len(x) for x in re.findall(r"\.(\d+)", shown)] or [1])
+
+
 def _shortfall(value: float, threshold: float) -> float:
     return float(min(1.0, max(0.0, (threshold - value) / threshold)))
 
@@ -99,7 +116,7 @@ def check_duplicates(p: Perceived) -> list[Finding]:
             out.append(Finding(
                 "near-duplicate", ERROR,
                 f"{_name(p, i)} and {_name(p, j)} are nearly the same colour "
-                f"(ΔE' {d[i, j]:.1f}, below {s.duplicate_delta_e:g}): no reader can tell them apart",
+                f"(ΔE' {_below(d[i, j], s.duplicate_delta_e)}, below {s.duplicate_delta_e:g}): no reader can tell them apart",
                 (i, j), _shortfall(d[i, j], s.duplicate_delta_e)))
     return out
 
@@ -116,17 +133,18 @@ def check_distinguishable(p: Perceived) -> list[Finding]:
         if low >= warn:
             continue
         below = [v for v in s.visions if values[v] < (err if low < err else warn)]
-        where = ", ".join(f"{_VISION_LABEL[v]} {values[v]:.1f}" for v in below)
+        limit = err if low < err else warn
+        where = ", ".join(f"{_VISION_LABEL[v]} {_below(values[v], limit)}" for v in below)
         if low < err:
             out.append(Finding(
                 "distinguishable", ERROR,
                 f"{_name(p, i)} and {_name(p, j)} are hard to tell apart as {s.mark} marks "
-                f"(ΔE' {where}; needs {err:.1f})", (i, j), _shortfall(low, err)))
+                f"(ΔE' {where}; needs {err:.{_digits(where)}f})", (i, j), _shortfall(low, err)))
         else:
             out.append(Finding(
                 "distinguishable", WARNING,
                 f"{_name(p, i)} and {_name(p, j)} are close as {s.mark} marks "
-                f"(ΔE' {where}; comfortable from {warn:.1f})", (i, j), _shortfall(low, warn)))
+                f"(ΔE' {where}; comfortable from {warn:.{_digits(where)}f})", (i, j), _shortfall(low, warn)))
     return out
 
 
@@ -141,7 +159,7 @@ def check_grey(p: Perceived) -> list[Finding]:
             out.append(Finding(
                 "grey", severity,
                 f"{_name(p, i)} and {_name(p, j)} print as nearly the same grey "
-                f"(ΔE' {d[i, j]:.1f}; needs {s.error_delta_e:.1f})", (i, j),
+                f"(ΔE' {_below(d[i, j], s.error_delta_e)}; needs {s.error_delta_e:.{_digits(_below(d[i, j], s.error_delta_e))}f})", (i, j),
                 _shortfall(d[i, j], s.error_delta_e)))
     return out
 
@@ -175,7 +193,7 @@ def check_contrast(p: Perceived) -> list[Finding]:
         r = float(p.contrast[i, k])
         out.append(Finding(
             "contrast", ERROR,
-            f"{_name(p, i)} has contrast {r:.2f}:1 against background {s.backgrounds[k]}; "
+            f"{_name(p, i)} has contrast {_below(r, target)}:1 against background {s.backgrounds[k]}; "
             f"{what} need {target:g}:1 ({sc})", (int(i),), _shortfall(r, target)))
     if s.kind != "categorical":
         out += _blends_into_background(p)
@@ -194,7 +212,7 @@ def _blends_into_background(p: Perceived) -> list[Finding]:
             out.append(Finding(
                 "contrast", WARNING,
                 f"{_name(p, int(i))} is barely distinguishable from background {s.backgrounds[k]} "
-                f"(ΔE' {low[i]:.1f}; needs {s.error_delta_e:.1f}): that cell will look empty",
+                f"(ΔE' {_below(low[i], s.error_delta_e)}; needs {s.error_delta_e:.1f}): that cell will look empty",
                 (int(i),), _shortfall(float(low[i]), s.error_delta_e)))
     return out
 

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from . import CAUTION
@@ -34,7 +36,7 @@ def colour_rows(result, color: bool) -> list[str]:
     lines = [f"  {'#':>2}  {'':{5 if color else 0}}{'colour':8} {'name':{width}}  {bgs}  closest (ΔE', vision)"]
     stack = np.stack([p.delta[v] for v in s.visions])  # (V, n, n)
     for i, w in enumerate(result.palette):
-        ratios = "  ".join(f"{p.contrast[i, k]:>5.2f}:1  " for k in range(len(s.backgrounds)))
+        ratios = "  ".join(f"{math.floor(p.contrast[i, k] * 100) / 100:>5.2f}:1  " for k in range(len(s.backgrounds)))
         near = "-"
         if n > 1:
             if s.kind == "categorical":
