@@ -56,8 +56,11 @@ def _normal_hex(text: str, where: str) -> str:
     return to_hex(rgb)
 
 
-def common_options(f):
-    """The options shared by every command that checks a palette."""
+def common_options(f=None, *, formats=("text", "json"), format_help="Output format."):
+    """The options shared by every command that checks a palette. Use bare, or as
+    ``@common_options(formats=..., format_help=...)`` for a command with more formats."""
+    if f is None:
+        return lambda g: common_options(g, formats=formats, format_help=format_help)
     opts = [
         click.option("--background", "-b", "backgrounds", multiple=True, metavar="COLOUR",
                      help="Background the colours sit on (repeatable; default white)."),
@@ -76,8 +79,7 @@ def common_options(f):
                      help="Treat pairs that merge in grey as errors, not warnings."),
         click.option("--fail-under", type=click.FloatRange(0, 100), default=None,
                      help="Fail when the score is below this (default 0)."),
-        click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
-                     help="Output format."),
+        click.option("--format", "fmt", type=click.Choice(formats), default="text", help=format_help),
         click.option("--output", "-o", type=click.Path(dir_okay=True), default=None,
                      help="Write the report here (atomically) instead of stdout."),
     ]
@@ -227,7 +229,8 @@ GENERATE_FORMATS = ("text", "json", "hex", "css", "matplotlib")
               help="WCAG ratio each colour (ramps: the far end) needs against the background; "
                    "1 turns it off here and in the check (default 3, 4.5 for text).")
 @click.option("--seed", type=int, default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
-@common_options
+@common_options(formats=GENERATE_FORMATS,
+                format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib.")
 def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
                  **checks):
     """Make a palette that passes the checks, and show how it scores. Exit 1 when the
@@ -267,12 +270,6 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
     emit(render_generated(gen, fmt, color=_use_color() and output is None), output, (),
          f"{palette_kind}-palette.{ext}")
     sys.exit(0 if gen.passed else 1)
-
-
-for _param in generate_cmd.params:  # the palette also comes as hex, CSS or a matplotlib snippet
-    if _param.name == "fmt":
-        _param.type = click.Choice(GENERATE_FORMATS)
-        _param.help = "Output: text (palette and check), json, hex, css (custom properties), matplotlib."
 
 
 @cli.command("fix")

@@ -34,6 +34,20 @@ READERS = {
 MAX_FILE_BYTES = 4 * 1024 * 1024
 
 
+def file_size(path: Path, what: str = "an image") -> int:
+    """Size in bytes of an input file that exists, is a file and is not empty;
+    raises ReadError naming the file otherwise."""
+    try:
+        size = path.stat().st_size
+    except OSError as e:
+        raise ReadError(f"{path}: cannot read ({e.strerror or e})") from None
+    if path.is_dir():
+        raise ReadError(f"{path}: is a folder, not {what}")
+    if size == 0:
+        raise ReadError(f"{path}: empty file (0 bytes)")
+    return size
+
+
 def read_text_file(path: Path) -> str:
     """Read a small UTF-8 file, with errors that name it."""
     try:

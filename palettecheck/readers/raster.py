@@ -184,14 +184,9 @@ def _apply_icc(strip, icc: bytes, notes: list):
 
 def open_image(path: Path, max_pixels: int = MAX_PIXELS):
     """Open a file (header only) with its size checked; raises ReadError."""
-    try:
-        size = path.stat().st_size
-    except OSError as e:
-        raise _error(path, f"cannot read ({e.strerror or e})") from None
-    if path.is_dir():
-        raise _error(path, "is a folder, not an image")
-    if size == 0:
-        raise _error(path, "empty file (0 bytes)")
+    from . import file_size
+
+    file_size(path)
     return _open(path, path, max_pixels)
 
 

@@ -375,15 +375,10 @@ def read_counts(path) -> ColorCounts:
     import defusedxml
     from defusedxml import ElementTree as SafeET
 
+    from . import file_size
+
     path = Path(path)
-    try:
-        size = path.stat().st_size
-    except OSError as e:
-        raise _error(path, f"cannot read ({e.strerror or e})") from None
-    if path.is_dir():
-        raise _error(path, "is a folder, not an image")
-    if size == 0:
-        raise _error(path, "empty file (0 bytes)")
+    size = file_size(path)
     if size > MAX_SVG_BYTES:
         raise _error(path, f"{size} bytes is more than the {MAX_SVG_BYTES // 2**20} MB allowed for an SVG")
     try:
