@@ -314,6 +314,37 @@ def fix_cmd(sources, keep, fmt, output, **options):
     sys.exit(0 if result.passed else 1)
 
 
+@cli.command("simulate")
+@click.argument("image", type=click.Path())
+@click.option("--output", "-o", type=click.Path(file_okay=False), default="reports", show_default=True,
+              help="Folder for <stem>-<vision>.png and <stem>-sheet.png (made if missing).")
+@click.option("--severity", type=click.FloatRange(0, 1), default=None,
+              help="CVD severity, 0-1 (default 1: dichromacy).")
+@click.option("--cvd-model", type=click.Choice(["machado", "brettel"]), default=None,
+              help="CVD simulation model (default machado).")
+def simulate_cmd(image, output, severity, cvd_model):
+    """Write what a chart image looks like under each simulated vision, one PNG per
+    vision plus a sheet of all of them side by side."""
+    from pathlib import Path
+
+    from .readers import ReadError
+    from .report import OutputError
+    from .report.figures import simulate_image
+
+    settings = settings_from(dict(severity=severity, cvd_model=cvd_model))
+    out = Path(output)
+    try:
+        out.mkdir(parents=True, exist_ok=True)
+    except OSError as e:
+        raise InputError(f"{out}: cannot make the folder ({e.strerror or e})") from None
+    try:
+        written = simulate_image(image, out, settings.severity, settings.cvd_model)
+    except (ReadError, OutputError) as e:
+        raise InputError(str(e)) from None
+    for path in written:
+        click.echo(str(path))
+
+
 def main(argv=None) -> None:
     """Entry point: click's errors become one line on stderr and exit code 2."""
     try:
