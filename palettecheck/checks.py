@@ -7,14 +7,13 @@ threshold (0-1), which the score uses to grade the deduction.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from .color import Palette
 from .config import Settings
-from .perceive import contrast_ratio, pairwise_delta_e, relative_luminance, to_ucs
+from .perceive import contrast_ratio, pairwise_delta_e, to_ucs
 from .vision import simulate
 
 __all__ = ["Finding", "Perceived", "seen", "perceive_palette", "pair_indices", "ALL_CHECKS"]

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-import numpy as np
 
 from .checks import ALL_CHECKS, ERROR, Finding, Perceived, pair_indices, perceive_palette, required_contrast
 from .color import Palette
