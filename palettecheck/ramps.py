@@ -1,0 +1,211 @@
+"""Sequential and diverging ramps that pass the checks, and continuous colormaps.
+
+A ramp runs away from the first background: its near end sits a comfortable ΔE'
+off the page, its far end at J' 18 on a light background (96 on a dark one), unless
+``lightness`` gives the span. Its hue and colourfulness follow one base colour or
+two (a diverging ramp: one per arm); the path and the colours along it come from
+:mod:`palettecheck.ramp_geometry`. When neighbours merge under some vision, the
+colourfulness is lowered step by step, then longer J' spans are tried; the most
+distinct attempt is returned, with the binding constraint named when it still
+fails. :func:`colormap` samples the same path continuously.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+import numpy as np
+
+from .checks import seen
+from .color import parse_color, to_hex
+from .config import Settings
+from .generated import Generated, GenerateError, _band, _colour, _count, _finish, _settings
+from .perceive import from_ucs, to_ucs
+from .ramp_geometry import MAX_STEPS, _polar, _ramp_colours, _round_even
+
+__all__ = ["sequential", "diverging", "colormap", "DEFAULT_SEQUENTIAL", "DEFAULT_DIVERGING", "FAR_LIGHTNESS"]
+
+#: Far-end J' of ramps by default, on light and on dark backgrounds (our choice).
+FAR_LIGHTNESS = {"light": 18.0, "dark": 96.0}
+#: Default base colours as (J', M', hue angle in degrees) in CAM02-UCS (our choice):
+#: a blue-teal ramp; a blue and an orange-brown arm, apart under all three CVDs.
+DEFAULT_SEQUENTIAL = ((45.0, 26.0, 228.0),)
+DEFAULT_DIVERGING = ((42.0, 28.0, 256.0), (45.0, 28.0, 50.0))
+#: Ramps: colourfulness tried, as fractions of the base colours', until neighbours are
+#: apart under every vision (a CVD sees less of a ramp's chroma than of its lightness).
+_CHROMA_SCALES = (1.0, 0.8, 0.6, 0.45, 0.3)
+
+
+def _side(settings: Settings) -> tuple[str, float]:
+    """Which way a ramp runs from the first background, and that background's J'."""
+    bg = np.array(parse_color(settings.backgrounds[0])[0])
+    j_bg = float(to_ucs(bg, settings.viewing)[0])
+    room_down = j_bg - FAR_LIGHTNESS["light"]
+    room_up = FAR_LIGHTNESS["dark"] - j_bg
+    return ("light" if room_down >= room_up else "dark"), j_bg
+
+
+#: Ramp layouts tried in turn without --lightness: the near end this many error
+#: thresholds (ΔE') off the page, and the far end moved this much further out (J').
+_LAYOUTS = ((2.0, 0.0), (1.5, 0.0), (1.25, 6.0))
+
+
+def _ends(settings: Settings, lightness) -> list[tuple[float, float]]:
+    """(near, far) J' pairs to try for a ramp: near the background's end, far the
+    other; the first is the most comfortable, the later ones longer."""
+    side, j_bg = _side(settings)
+    if lightness is not None:
+        lo, hi = _band(lightness, None)
+        return [(hi, lo) if side == "light" else (lo, hi)]
+    out = []
+    for factor, extra in _LAYOUTS:
+        gap = factor * settings.error_delta_e
+        if side == "light":
+            far = FAR_LIGHTNESS["light"] - extra
+            out.append((max(min(j_bg - gap, 97.0), far + 5), far))
+        else:
+            far = min(99.0, FAR_LIGHTNESS["dark"] + extra / 2)
+            out.append((min(max(j_bg + gap, 3.0), far - 5), far))
+    return out
+
+
+def _anchors(colors, default, viewing) -> list[tuple[float, float, float]]:
+    if not colors:
+        return list(default)
+    out = []
+    for c in colors:
+        j, m, h = _polar(to_ucs(_colour(c, f"--from {c}"), viewing))
+        if m < 3.0:
+            raise GenerateError(f"--from {c}: a grey has no hue to build a ramp on; give a colour")
+        out.append((float(j), float(m), float(h)))
+    return out
+
+
+def _ramp(kind, n, colors, lightness, settings):
+    settings = _settings(settings, kind)
+    lo = 2 if kind == "sequential" else 3
+    n = _count(n, lo, MAX_STEPS, kind, f"more steps than {MAX_STEPS} are a continuous colormap: "
+                                     "use palettecheck.colormap")
+    allowed, words = ((2,), "two colours") if kind == "diverging" else ((1, 2), "one or two colours")
+    if colors and len(colors) not in allowed:
+        raise GenerateError(f"--from: a {kind} ramp takes {words}, not {len(colors)}")
+    anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
+    gen, done = None, False
+    for near, far in _ends(settings, lightness):
+        for scale in _CHROMA_SCALES:
+            scaled = [(j, m * scale, h) for j, m, h in anchors]
+            exact, arms, paths = _ramp_colours(kind, n, scaled, near, far, settings.viewing)
+            rgb = _round_even(np.clip(exact, 0, 255), arms, settings.viewing)
+            recipe = {"colors": tuple(colors or ()), "lightness": (min(near, far), max(near, far)),
+                      "settings": settings, "chroma_scale": scale}
+            trial = _finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
+            trial.exact = exact
+            if gen is None or trial.min_delta_e > gen.min_delta_e:
+                gen, shape = trial, (near, far, paths)
+            if not any(f.severity == "error" and f.check in ("distinguishable", "near-duplicate")
+                       for f in trial.check.findings):
+                gen, shape, done = trial, (near, far, paths), True
+                break
+        if done:
+            break
+    near, far, paths = shape
+    scale = gen.recipe["chroma_scale"]
+    if scale < 1:
+        gen.notes.append(f"colourfulness lowered to {scale:.0%} of the base colours' so that neighbouring "
+                         "steps stay apart under every vision")
+    gen.notes.append(f"lightness J' from {near:.0f} (near the background) to {far:.0f}")
+    if kind == "diverging" and n % 2 == 0:
+        gen.notes.append("the two middle colours share a lightness, so they print as one grey; "
+                         "an odd -n gives a neutral midpoint instead")
+    if not gen.passed:
+        gen.explanation = _explain_ramp(gen, paths, near, far)
+    return gen
+
+
+def sequential(n: int, colors=None, *, lightness=None, settings: Settings | None = None) -> Generated:
+    """A sequential ramp of ``n`` colours from one base colour (or two, for a two-hue
+    ramp), lightness running away from the first background.
+
+    :param colors: base colours (CSS strings); default a blue-teal of our choosing.
+    :param lightness: ``(MIN, MAX)`` J' band the ramp spans; default from the
+        background's J' (a comfortable ΔE' away) to J' 18 (96 on a dark background).
+    """
+    return _ramp("sequential", n, colors, lightness, settings)
+
+
+def diverging(n: int, colors=None, *, lightness=None, settings: Settings | None = None) -> Generated:
+    """A diverging ramp: two hues (``colors``, two CSS strings; the first is the low
+    end) around a neutral midpoint, lightness symmetric about it."""
+    return _ramp("diverging", n, colors, lightness, settings)
+
+
+def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
+    s, out = gen.check.settings, []
+    errors = {f.check for f in gen.check.findings if f.severity == "error"}
+    if errors & {"distinguishable", "near-duplicate"}:
+        lengths = {}
+        for v in s.visions:
+            views = [seen(np.clip(from_ucs(p, s.viewing), 0, 255), s, (v,))[0] for p in paths]
+            lengths[v] = min(float(np.linalg.norm(np.diff(u, axis=0), axis=-1).sum()) for u in views)
+        v = min(lengths, key=lengths.get)
+        steps = int(lengths[v] // s.error_delta_e)
+        most = steps + 1 if gen.kind == "sequential" else 2 * steps + 1
+        arm = " per arm" if gen.kind == "diverging" else ""
+        out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under "
+                   f"every vision, but the J' band {min(near, far):.0f}-{max(near, far):.0f} is only about "
+                   f"{lengths[v]:.0f} ΔE' long{arm} under {v}: at most about {most} colours fit (smallest "
+                   f"step now {gen.min_delta_e:.1f}); use fewer colours or widen --lightness")
+    if "contrast" in errors:
+        for f in gen.check.findings:
+            if f.check == "contrast":
+                out.append(f"binding: contrast. {f.message}; move the far end of --lightness away from the "
+                           "background, or relax it with --min-contrast")
+    if not out:
+        out = [f"the palette fails: {f.message}" for f in gen.check.findings if f.severity == "error"]
+    if gen.check.score.value < s.fail_under:
+        out.append(f"score {gen.check.score.value} is below --fail-under {s.fail_under:g}")
+    return out
+
+
+# ---------------------------------------------------------------- colormap
+
+
+def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings: Settings | None = None,
+             background: str | None = None, name: str | None = None, register: bool = False,
+             resolution: int = 256, chroma_scale: float | None = None):
+    """A continuous matplotlib colormap along a generated ramp's path.
+
+    :param kind: ``sequential`` or ``diverging``.
+    :param colors: base colours as for :func:`sequential` / :func:`diverging`.
+    :param background: shortcut for ``settings.backgrounds`` (the ramp runs away from it).
+    :param name: the colormap's name (default ``palettecheck-<kind>``).
+    :param register: also register it with matplotlib under ``name``.
+    :param chroma_scale: fraction of the base colours' colourfulness (default, and
+        the J' span when ``lightness`` is None: as a 9-colour ramp settles them).
+    :returns: a :class:`matplotlib.colors.ListedColormap` of ``resolution`` colours.
+    """
+    if kind not in ("sequential", "diverging"):
+        raise GenerateError("a continuous colormap is sequential or diverging; "
+                            "use Generated.colormap() for categorical colours")
+    settings = _settings(settings, kind)
+    if background is not None:
+        settings = replace(settings, backgrounds=(to_hex(_colour(background, "background")),))
+    if chroma_scale is None or lightness is None:
+        probe = _ramp(kind, 9, colors, lightness, settings).recipe
+        chroma_scale = probe["chroma_scale"] if chroma_scale is None else chroma_scale
+        lightness = probe["lightness"]
+    anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
+    anchors = [(j, m * chroma_scale, h) for j, m, h in anchors]
+    [(near, far)] = _ends(settings, lightness)
+    rgb, _, _ = _ramp_colours(kind, int(resolution), anchors, near, far, settings.viewing)
+    return _as_colormap(np.clip(rgb / 255.0, 0.0, 1.0), name or f"palettecheck-{kind}", register)
+
+
+def _as_colormap(rgb1, name, register):
+    import matplotlib
+    from matplotlib.colors import ListedColormap
+
+    cmap = ListedColormap(rgb1, name=name)
+    if register:
+        matplotlib.colormaps.register(cmap, name=name, force=True)
+    return cmap
