@@ -21,7 +21,7 @@ _LAZY = {
     "scan": "charts",
     "check_figure": "charts",
     "generate_palette": "generate",
-    "colormap": "generate",
+    "colormap": "ramps",
 }
 
 __all__ = ["__version__", *_LAZY]

@@ -235,7 +235,10 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
                  **checks):
     """Make a palette that passes the checks, and show how it scores. Exit 1 when the
     constraints cannot all be met (the output says which one binds)."""
-    from .generate import DEFAULT_MIN_CHROMA, GenerateError, generate_palette, render_generated
+    from .categorical import DEFAULT_MIN_CHROMA
+    from .generate import generate_palette
+    from .generated import GenerateError
+    from .report.generated import render_generated
 
     if kind and kind != palette_kind:
         raise InputError(f"--kind {kind} contradicts generate {palette_kind}")
