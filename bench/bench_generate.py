@@ -47,7 +47,8 @@ def process(args: list[str], repeats: int = 3) -> float:
 
 
 def main() -> None:
-    from palettecheck.generate import DEFAULT_BUDGET, categorical, diverging, sequential
+    from palettecheck.categorical import DEFAULT_BUDGET, categorical
+    from palettecheck.ramps import diverging, sequential
 
     t_cat, cat = timed(lambda: categorical(10, KEPT), 3)
     t0 = time.perf_counter()

@@ -9,11 +9,13 @@ import matplotlib
 import numpy as np
 import pytest
 
+from palettecheck.categorical import DEFAULT_BUDGET, categorical, categorical_problem
 from palettecheck.color import Palette, Swatch, parse_color, to_hex
 from palettecheck.config import Settings
-from palettecheck.generate import (DEFAULT_BUDGET, GenerateError, categorical, categorical_problem, colormap,
-                                   diverging, ramp_metrics, sequential)
+from palettecheck.generated import GenerateError
 from palettecheck.judge import check_palette
+from palettecheck.ramp_geometry import ramp_metrics
+from palettecheck.ramps import colormap, diverging, sequential
 from palettecheck.search import Goal, Problem, Region, measure, movement, search
 
 # Invented base colours spread round the hue circle (no published palette).
@@ -227,6 +229,22 @@ def test_empty_region_explained():
 def test_bad_requests_raise(call, words):
     with pytest.raises(GenerateError, match=words):
         call()
+
+
+def test_generate_module_still_offers_every_public_name():
+    """generate.py was split by concept; what it offered stays importable from it."""
+    import palettecheck.generate as G
+    from palettecheck import categorical as C
+    from palettecheck import ramps as R
+    from palettecheck.report import generated as out
+
+    names = [*G.__all__, "KINDS", "MAX_STEPS", "FAR_LIGHTNESS", "DEFAULT_BAND", "DEFAULT_MIN_CHROMA",
+             "DEFAULT_SEQUENTIAL", "DEFAULT_DIVERGING"]
+    assert all(hasattr(G, name) for name in names)
+    assert (G.sequential, G.diverging, G.colormap) == (R.sequential, R.diverging, R.colormap)
+    assert (G.categorical, G.DEFAULT_BUDGET, G.render_generated) == (C.categorical, C.DEFAULT_BUDGET,
+                                                                     out.render_generated)
+    assert G.generate_palette("sequential", 3).colors == sequential(3).colors
 
 
 # ---------------------------------------------------------------- search API (shared with repair)

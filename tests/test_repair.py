@@ -9,10 +9,10 @@ import json
 import numpy as np
 import pytest
 
+from palettecheck.categorical import categorical
 from palettecheck.checks import seen
 from palettecheck.color import Palette, Swatch, make_palette, to_hex
 from palettecheck.config import Settings
-from palettecheck.generate import categorical
 from palettecheck.judge import check_palette
 from palettecheck.perceive import contrast_ratio, to_ucs
 from palettecheck.readers import read_source
