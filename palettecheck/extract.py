@@ -17,7 +17,7 @@ The steps, each tuned for charts rather than photographs:
 3. **Continuous scale**: when many groups lie along one smooth path in CAM02-UCS
    and the pixels are spread along it (a heat map, a colour bar), the chart is a
    continuous scale: it is reported as evenly spaced steps along that path and
-   checked as a sequential or diverging ramp.
+   checked as a sequential or diverging ramp (see :mod:`palettecheck.scale`).
 4. **Blends**: anti-aliased edges and translucent overlaps make colours that lie
    between stronger ones. A group is dropped when it lies (in sRGB) on the segment
    between two stronger groups (the background included), or where a translucent
@@ -32,13 +32,14 @@ The steps, each tuned for charts rather than photographs:
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from .color import Palette, Swatch, to_hex
 from .perceive import to_ucs
+from .scale import SCALE_MIN_COLORS, _continuous, _sample_path, _segment_distance
+from .scale import ramp_order as ramp_order
 
 __all__ = [
     "ColorCounts",
@@ -60,25 +61,6 @@ DEFAULT_MIN_SHARE = 0.002
 #: Below this CAM02-UCS colourfulness M' (= sqrt(a'² + b'²)) a colour reads as grey
 #: and is treated as text, axis or grid (practical choice, no source).
 NEUTRAL_CHROMA = 5.0
-#: Most steps reported for a continuous scale ...
-RAMP_STEPS = 9
-#: ... spaced at least this far apart in ΔE' along it (about two and a half times the
-#: 50 %-noticeable difference for areas, so the steps checked are steps a reader
-#: would pick out of a legend; practical choice).
-RAMP_SPACING = 16.0
-#: A continuous scale needs at least this many merged colours along its path ...
-SCALE_MIN_COLORS = 8
-#: ... a path at least this long in ΔE' ...
-SCALE_MIN_LENGTH = 25.0
-#: ... pixels spread over at least this many colours' worth (exp of the entropy of
-#: the shares along the path), so a single line with its anti-aliased fringe is not
-#: mistaken for a scale ...
-SCALE_MIN_SPREAD = 5.0
-#: ... and this fraction of the chromatic pixels on or next to the path.
-SCALE_MIN_COVERAGE = 0.85
-#: Each end of a scale's path loses the colours holding this fraction of its pixels
-#: (noise strung onto the ends, text beyond them; a colour bar's last rows).
-SCALE_TAIL = 0.002
 #: Blends lie within this sRGB distance (0-255 scale) of the segment between their
 #: parents: rounding for lossless files, compression noise for lossy ones.
 BLEND_TOLERANCE = {False: 4.5, True: 12.0}
@@ -239,15 +221,6 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     return group, np.asarray(seeds)
 
 
-def _segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
-    """Distance from point ``x`` to each segment ``p[i] + t (q[i] - p[i])``, t in [lo, hi]."""
-    d = q - p
-    dd = (d * d).sum(-1)
-    t = np.where(dd > 0, ((x - p) * d).sum(-1) / np.where(dd > 0, dd, 1.0), 0.0)
-    t = np.clip(t, lo, hi)
-    return np.sqrt(((p + t[:, None] * d - x) ** 2).sum(-1))
-
-
 #: JPEG's full-range BT.601 RGB -> YCbCr (ITU-T T.871), offsets dropped.
 _YCC = np.array([[0.299, 0.587, 0.114], [-0.168736, -0.331264, 0.5], [0.5, -0.418688, -0.081312]])
 
@@ -335,171 +308,6 @@ def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray,
     return bool(np.any(near & ok))
 
 
-def _mst_path(jab: np.ndarray):
-    """Longest path through the minimum spanning tree of the points (ΔE' edges):
-    ``(path indices in order, parent array, edge lengths to parent)``."""
-    n = len(jab)
-    d = np.sqrt(((jab[:, None, :] - jab[None, :, :]) ** 2).sum(-1))
-    parent = np.full(n, -1)
-    best = d[0].copy()
-    link = np.zeros(n, dtype=int)
-    done = np.zeros(n, dtype=bool)
-    done[0] = True
-    best[0] = np.inf
-    adj = [[] for _ in range(n)]
-    for _ in range(n - 1):
-        k = int(np.argmin(np.where(done, np.inf, best)))
-        parent[k] = link[k]
-        adj[k].append(link[k])
-        adj[link[k]].append(k)
-        done[k] = True
-        closer = (d[k] < best) & ~done
-        best[closer] = d[k][closer]
-        link[closer] = k
-
-    def farthest(start):
-        dist = np.full(n, -1.0)
-        prev = np.full(n, -1)
-        dist[start] = 0.0
-        stack = [start]
-        while stack:
-            u = stack.pop()
-            for v in adj[u]:
-                if dist[v] < 0:
-                    dist[v] = dist[u] + d[u, v]
-                    prev[v] = u
-                    stack.append(v)
-        end = int(np.argmax(dist))
-        return end, prev
-
-    a, _ = farthest(0)
-    b, prev = farthest(a)
-    path = [b]
-    while path[-1] != a:
-        path.append(int(prev[path[-1]]))
-    return path[::-1], d
-
-
-def _continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=()):
-    """The ordered path of a continuous scale and the weight along it, or None."""
-    idx = np.asarray([i for i in candidates if i != bg])
-    if len(idx) < SCALE_MIN_COLORS:
-        return None
-    path_local, d = _mst_path(jab[idx])
-    # colours next to the path (its fringe: rounding, anti-aliasing) count as on it
-    near = d[:, path_local].min(axis=1) <= 2.0 * radius
-    vivid = chroma[idx] >= NEUTRAL_CHROMA
-    total = w[idx][vivid].sum()
-    if total > 0 and w[idx][vivid & near].sum() < SCALE_MIN_COVERAGE * total:
-        return None
-    nearest = np.argmin(d[:, path_local], axis=1)
-    along = np.bincount(nearest[near], weights=w[idx][near], minlength=len(path_local))
-    path = idx[path_local]
-    # trim thin tails: noise strung onto the ends ...
-    cum = np.cumsum(along) / along.sum()
-    lo = int(np.searchsorted(cum, SCALE_TAIL))
-    hi = int(np.searchsorted(cum, 1.0 - SCALE_TAIL)) + 1
-    path, along = path[lo:hi], along[lo:hi]
-    while len(path) >= 2:
-        steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
-        jumps = np.flatnonzero(steps > max(4.0 * radius, 0.2 * steps.sum()))
-        if not len(jumps):
-            break
-        k = int(jumps[0]) + 1  # ... and text or axis colours beyond a jump
-        if along[:k].sum() < 5 * SCALE_TAIL * along.sum():
-            path, along = path[k:], along[k:]
-        elif along[k:].sum() < 5 * SCALE_TAIL * along.sum():
-            path, along = path[:k], along[:k]
-        else:  # a jump inside: separate colours, not a path
-            return None
-    if rgb is not None and len(greys):  # ends where a grey outline or text meets the scale
-        tol = BLEND_TOLERANCE[False]
-        for _ in range(3):
-            for end, inward in ((0, slice(1, 4)), (-1, slice(-4, -1))):
-                if len(path) < 4:
-                    break
-                p_in = rgb[path[inward]]
-                starts = np.repeat(p_in, len(greys), axis=0)
-                stops = np.tile(rgb[greys], (len(p_in), 1))
-                if _segment_distance(rgb[path[end]], starts, stops, 0.0, 0.95).min() <= tol:
-                    path, along = (path[1:], along[1:]) if end == 0 else (path[:-1], along[:-1])
-    # a faint end that turns lightness back, or greys where the scale is colourful,
-    # is text or an outline meeting the scale
-    for _ in range(4):
-        if len(path) < 4:
-            break
-        j, c, faint = jab[path, 0], chroma[path], along < 5 * SCALE_TAIL * along.sum()
-        greyer = (c[[0, -1]] < 2 * NEUTRAL_CHROMA) & (np.median(c) > 2 * c[[0, -1]])
-        if faint[0] and ((j[1] - j[0]) * (j[-1] - j[1]) < 0 or greyer[0]):
-            path, along = path[1:], along[1:]
-        elif faint[-1] and ((j[-1] - j[-2]) * (j[-2] - j[0]) < 0 or greyer[1]):
-            path, along = path[:-1], along[:-1]
-        else:
-            break
-    steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
-    if len(path) < SCALE_MIN_COLORS or steps.sum() < SCALE_MIN_LENGTH:
-        return None
-    if np.median(steps) > 3.0 * radius:  # evenly spread distinct colours, not a smooth run
-        return None
-    # pixels must be spread along the path, not piled on one colour
-    p = along[along > 0] / along.sum()
-    if math.exp(-(p * np.log(p)).sum()) < SCALE_MIN_SPREAD:
-        return None
-    return path, along
-
-
-def _ramp_kind(jab: np.ndarray) -> str:
-    """Diverging when lightness peaks (or dips) near the middle, the middle is
-    greyish and the two ends differ in hue; otherwise sequential."""
-    j = jab[:, 0]
-    n = len(j)
-    if n < 5:
-        return "sequential"
-    m = int(np.argmax(j)) if (j.max() - max(j[0], j[-1])) > (min(j[0], j[-1]) - j.min()) else int(np.argmin(j))
-    if not (0.25 * (n - 1) <= m <= 0.75 * (n - 1)):
-        return "sequential"
-    chroma = np.hypot(jab[:, 1], jab[:, 2])
-    ends = (chroma[0] + chroma[-1]) / 2.0
-    hue = np.degrees(np.arctan2(jab[[0, -1], 2], jab[[0, -1], 1]))
-    turn = abs((hue[0] - hue[1] + 180.0) % 360.0 - 180.0)
-    if chroma[m] < 0.5 * ends and turn > 60.0 and abs(j[m] - j[0]) > 10 and abs(j[m] - j[-1]) > 10:
-        return "diverging"
-    return "sequential"
-
-
-def _sample_path(jab, path, along, bg_jab):
-    """Steps along a scale's path, evenly spaced by ΔE', and its kind.
-
-    A sequential scale starts at the end nearest the background. A diverging one
-    is sampled arm by arm with the same number of steps, so its light (or dark)
-    middle is the middle step."""
-    path, along = np.asarray(path), np.asarray(along, dtype=float)
-    steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
-    arc = np.concatenate(([0.0], np.cumsum(steps)))
-    if np.sum((jab[path[-1]] - bg_jab) ** 2) < np.sum((jab[path[0]] - bg_jab) ** 2):
-        path, along, arc = path[::-1], along[::-1], arc[-1] - arc[::-1]
-
-    def pick_between(a: float, b: float, n: int) -> list[int]:
-        return [int(np.argmin(np.abs(arc - t))) for t in np.linspace(a, b, n)]
-
-    dense = pick_between(0.0, arc[-1], RAMP_STEPS)
-    kind = _ramp_kind(jab[path[dense]])
-    if kind == "diverging":
-        j = jab[path, 0]
-        inner = j[1:-1]
-        mid = 1 + int(np.argmax(inner) if inner.max() - max(j[0], j[-1]) > min(j[0], j[-1]) - inner.min()
-                      else np.argmin(inner))
-        k = int(min((RAMP_STEPS - 1) // 2, max(2, max(arc[mid], arc[-1] - arc[mid]) // RAMP_SPACING)))
-        pick = pick_between(0.0, arc[mid], k + 1) + pick_between(arc[mid], arc[-1], k + 1)[1:]
-    else:
-        pick = pick_between(0.0, arc[-1], int(min(RAMP_STEPS, max(3, arc[-1] // RAMP_SPACING + 1))))
-    pick = list(dict.fromkeys(pick))
-    # each path colour's pixels go to the nearest picked step
-    owner = np.argmin(np.abs(arc[:, None] - arc[pick][None, :]), axis=1)
-    share = np.bincount(owner, weights=along, minlength=len(pick))
-    return [int(path[k]) for k in pick], share, kind
-
-
 def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, source: str = "",
             min_share: float = DEFAULT_MIN_SHARE, merge_radius: float = DEFAULT_MERGE_RADIUS) -> ChartColors:
     """The data colours, neutrals, background and scale of a chart.
@@ -551,11 +359,14 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     grey = [k for k in live if g_chroma[k] < NEUTRAL_CHROMA]
     outline = np.asarray([k for k in range(len(seeds)) if g_chroma[k] < NEUTRAL_CHROMA
                           and gflat[k] >= 0.5 * gw[k] and (k == 0 or share[k] >= PARENT_MIN_SHARE)], dtype=int)
-    found = _continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius, g_rgb, outline)
+    scale_terms = dict(neutral=NEUTRAL_CHROMA, blend_tol=BLEND_TOLERANCE[False])
+    found = _continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius, g_rgb, outline, **scale_terms)
     if found is None and len(vivid) >= SCALE_MIN_COLORS // 2:  # a diverging scale with a grey middle
-        found = _continuous(g_jab, gflat, g_chroma, 0, vivid + grey, merge_radius, g_rgb, outline)
+        found = _continuous(g_jab, gflat, g_chroma, 0, vivid + grey, merge_radius, g_rgb, outline,
+                            **scale_terms)
     if found is None and len(vivid) < SCALE_MIN_COLORS:  # a grey scale
-        found = _continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius)
+        found = _continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius,
+                            **scale_terms)
     if found is not None:
         path, along = found
         picked, pshare, kind = _sample_path(g_jab, path, along, g_jab[0])
@@ -581,21 +392,3 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     return ChartColors(source, background, bg_from, "categorical", colors, neutrals, None,
                        counts.size, tuple(notes))
 
-
-def ramp_order(hexes, background: str) -> list[int]:
-    """Indices putting colours in ramp order: along the shortest tour through them
-    in CAM02-UCS (the longest path of their minimum spanning tree, the rest placed
-    by lightness), starting from the end nearest the background."""
-    rgb = np.array([[int(h[i : i + 2], 16) for i in (1, 3, 5)] for h in hexes], dtype=float)
-    jab = to_ucs(rgb)
-    path, _ = _mst_path(jab)
-    bg = to_ucs(np.array([int(background[i : i + 2], 16) for i in (1, 3, 5)], dtype=float))
-    if np.sum((jab[path[-1]] - bg) ** 2) < np.sum((jab[path[0]] - bg) ** 2):
-        path = path[::-1]
-    rest = [i for i in range(len(hexes)) if i not in path]
-    j = jab[path, 0]
-    for i in sorted(rest, key=lambda i: jab[i, 0]):  # off the path: slot in by lightness
-        k = int(np.argmin(np.abs(j - jab[i, 0])))
-        path.insert(k + 1, i)
-        j = jab[path, 0]
-    return [int(i) for i in path]
