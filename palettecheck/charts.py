@@ -117,7 +117,7 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     bgs = tuple(dict.fromkeys((reading.background, *backgrounds)))
     chosen = kind or (reading.ramp_kind if reading.scale == "continuous" else settings.kind)
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
-        from .extract import ramp_order
+        from .scale import ramp_order
 
         order = ramp_order(palette.hexes, reading.background)
         palette = ChartPalette(tuple(palette[i] for i in order), palette.source, palette.notes, reading=reading)

@@ -12,8 +12,9 @@ import pytest
 from PIL import Image
 
 import palettecheck
-from palettecheck.extract import ColorCounts, extract, ramp_order
+from palettecheck.extract import ColorCounts, extract
 from palettecheck.readers import ReadError
+from palettecheck.scale import ramp_order
 
 from test_scan_accuracy import delta
 
@@ -273,3 +274,12 @@ def test_ramp_order_follows_lightness_from_the_page():
     ramp = ["#f7fbff", "#c6dbef", "#6baed6", "#2171b5", "#08306b"]
     shuffled = [ramp[i] for i in (3, 0, 4, 2, 1)]
     assert [shuffled[i] for i in ramp_order(shuffled, "#ffffff")] == ramp
+
+
+def test_extract_module_still_offers_every_public_name():
+    """The scale step moved to palettecheck.scale; extract's public names stay importable."""
+    import palettecheck.extract as E
+    import palettecheck.scale as S
+
+    assert all(hasattr(E, name) for name in E.__all__)
+    assert E.ramp_order is S.ramp_order
