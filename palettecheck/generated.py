@@ -104,7 +104,6 @@ def _count(n: int, lo: int, hi: int, kind: str, why: str) -> int:
     return int(n)
 
 
-
 # ---------------------------------------------------------------- check
 
 
