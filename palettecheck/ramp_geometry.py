@@ -24,7 +24,7 @@ from .perceive import SRGB_VIEWING, from_ucs, to_ucs
 
 __all__ = ["max_chroma", "ramp_metrics", "MAX_STEPS"]
 
-MAX_STEPS = 64  #: most colours in a generated ramp (a continuous one: :func:`colormap`)
+MAX_STEPS = 64  #: most colours in a generated ramp (a continuous one: :func:`palettecheck.ramps.colormap`)
 _DENSE = 1200  #: path samples
 
 

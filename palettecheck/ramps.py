@@ -5,9 +5,9 @@ off the page, its far end at J' 18 on a light background (96 on a dark one), unl
 ``lightness`` gives the span. Its hue and colourfulness follow one base colour or
 two (a diverging ramp: one per arm); the path and the colours along it come from
 :mod:`palettecheck.ramp_geometry`. When neighbours merge under some vision, the
-colourfulness is lowered step by step, then longer J' spans are tried; the most
-distinct attempt is returned, with the binding constraint named when it still
-fails. :func:`colormap` samples the same path continuously.
+colourfulness is lowered step by step, then longer J' spans are tried; the first
+attempt whose neighbours stay apart is returned, else the most distinct one with
+the binding constraint named. :func:`colormap` samples the same path continuously.
 """
 
 from __future__ import annotations
