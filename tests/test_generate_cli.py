@@ -115,3 +115,11 @@ def test_bad_input_is_one_line_exit_2(invoke, args, words):
     assert res.stdout == ""
     lines = res.stderr.strip().splitlines()
     assert len(lines) == 1 and words in lines[0] and "Traceback" not in res.stderr
+
+
+def test_cli_offers_every_rendered_format():
+    # cli keeps its own copy so that starting the CLI does not import numpy
+    from palettecheck.cli import GENERATE_FORMATS
+    from palettecheck.report.generated import FORMATS
+
+    assert GENERATE_FORMATS == FORMATS
