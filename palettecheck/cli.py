@@ -45,15 +45,12 @@ def settings_from(ctx_options: dict):
 
 
 def _normal_hex(text: str, where: str) -> str:
-    from .color import ColorError, parse_color, to_hex
+    from .color import ColorError, opaque_hex
 
     try:
-        rgb, alpha = parse_color(text)
+        return opaque_hex(text)
     except ColorError as e:
         raise InputError(f"{where}: {e}") from None
-    if alpha < 1:
-        raise InputError(f"{where}: {text!r} is translucent; a background must be opaque")
-    return to_hex(rgb)
 
 
 def common_options(f=None, *, formats=("text", "json"), format_help="Output format."):

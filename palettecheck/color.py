@@ -17,7 +17,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-__all__ = ["ColorError", "Swatch", "Palette", "parse_color", "to_hex", "make_palette"]
+__all__ = ["ColorError", "Swatch", "Palette", "parse_color", "opaque_hex", "to_hex", "make_palette"]
 
 
 class ColorError(ValueError):
@@ -128,6 +128,17 @@ def parse_color(text: str) -> tuple[tuple[float, float, float], float]:
     if named is not None:
         return named, 1.0
     raise ColorError(f"{s!r} is not a colour (use #rrggbb, rgb(), hsl() or a CSS colour name)")
+
+
+def opaque_hex(text: str) -> str:
+    """``#rrggbb`` of an opaque colour string (backgrounds, kept colours).
+
+    :raises ColorError: when the text is not a colour, or is translucent.
+    """
+    rgb, alpha = parse_color(text)
+    if alpha < 1:
+        raise ColorError(f"{text.strip()!r} is translucent; give an opaque colour")
+    return to_hex(rgb)
 
 
 def composite(rgb, alpha: float, over) -> tuple[float, float, float]:

@@ -15,7 +15,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from .checks import pair_indices
-from .color import ColorError, Palette, Swatch, parse_color, to_hex
+from .color import ColorError, Palette, Swatch, opaque_hex, parse_color
 from .config import Settings
 from .judge import CheckResult, check_palette
 
@@ -77,12 +77,9 @@ def _settings(settings: Settings | None, kind: str) -> Settings:
 
 def _colour(text: str, what: str) -> np.ndarray:
     try:
-        rgb, alpha = parse_color(text)
+        return np.array(parse_color(opaque_hex(text))[0])  # rounded as #rrggbb rounds
     except ColorError as e:
         raise GenerateError(f"{what}: {e}") from None
-    if alpha < 1:
-        raise GenerateError(f"{what}: {text!r} is translucent; give an opaque colour")
-    return np.array(parse_color(to_hex(rgb))[0])  # rounded as #rrggbb rounds
 
 
 def _band(lightness, default) -> tuple[float, float]:

@@ -60,19 +60,24 @@ def simulated_views(pixels: np.ndarray, severity: float = 1.0, method: str = "ma
     return out
 
 
+def _atomically(path: Path, save) -> None:
+    """Call ``save(temporary_path)``, then rename the result to ``path``."""
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".png", dir=path.parent)
+    os.close(fd)
+    try:
+        save(tmp)
+        os.replace(tmp, path)
+    finally:
+        Path(tmp).unlink(missing_ok=True)
+
+
 def _save_png(array: np.ndarray, alpha, path: Path) -> None:
     from PIL import Image
 
     im = Image.fromarray(array, "RGB")
     if alpha is not None:
         im.putalpha(Image.fromarray(alpha, "L"))
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".png", dir=path.parent)
-    os.close(fd)
-    try:
-        im.save(tmp, format="PNG")
-        os.replace(tmp, path)
-    finally:
-        Path(tmp).unlink(missing_ok=True)
+    _atomically(path, lambda tmp: im.save(tmp, format="PNG"))
 
 
 def _sheet(views: dict, path: Path, title: str) -> None:
@@ -92,13 +97,7 @@ def _sheet(views: dict, path: Path, title: str) -> None:
         ax.imshow(arr, interpolation="lanczos")
         ax.set_title(_TITLE[vision], fontsize=9)
         ax.set_axis_off()
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".png", dir=path.parent)
-    os.close(fd)
-    try:
-        fig.savefig(tmp, format="png")
-        os.replace(tmp, path)
-    finally:
-        Path(tmp).unlink(missing_ok=True)
+    _atomically(path, lambda tmp: fig.savefig(tmp, format="png"))
 
 
 def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado") -> list[Path]:
