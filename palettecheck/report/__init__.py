@@ -6,13 +6,16 @@ import os
 import tempfile
 from pathlib import Path
 
-__all__ = ["CAUTION", "FORMATS", "render", "write_atomic", "OutputError"]
+__all__ = ["CAUTION", "FORMATS", "EXTENSIONS", "render", "write_atomic", "OutputError"]
 
 CAUTION = ("Passing these checks does not by itself certify compliance with any "
            "accessibility law or standard; follow the standard that applies to you "
            "(for example WCAG 2.2) and ask an accessibility specialist.")
 
-FORMATS = ("text", "json")
+#: Report formats of ``check`` and ``scan``.
+FORMATS = ("text", "json", "markdown", "html")
+#: File name extension of each format, for reports written into a folder.
+EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html"}
 
 
 class OutputError(OSError):
@@ -20,10 +23,19 @@ class OutputError(OSError):
 
 
 def render(result, fmt: str, color: bool = False) -> str:
+    """A check's report in one of :data:`FORMATS`; ``color`` is for the terminal (text)."""
     if fmt == "json":
         from .jsonout import render_json
 
         return render_json(result)
+    if fmt == "markdown":
+        from .markdown import render_markdown
+
+        return render_markdown(result)
+    if fmt == "html":
+        from .html import render_html
+
+        return render_html(result)
     from .text import render_text
 
     return render_text(result, color=color)

@@ -1,4 +1,5 @@
-"""Scan output: one line per chart in text, one object per chart in JSON."""
+"""Scan output: one line per chart in text, one object per chart in JSON; Markdown and
+HTML from their own modules."""
 
 from __future__ import annotations
 
@@ -63,6 +64,15 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
 
 
 def render_scan(report, fmt: str, color: bool = False) -> str:
+    """A scan's report in one of :data:`palettecheck.report.FORMATS`."""
+    if fmt == "markdown":
+        from .markdown import render_scan_markdown
+
+        return render_scan_markdown(report)
+    if fmt == "html":
+        from .html import render_scan_html
+
+        return render_scan_html(report)
     if fmt == "json":
         d = report.to_dict()
         d["caution"] = CAUTION
