@@ -10,6 +10,9 @@ import sys
 
 import click
 
+from .report import EXTENSIONS
+from .report import FORMATS as REPORT_FORMATS
+
 KINDS = ("categorical", "sequential", "diverging")
 MARKS = ("area", "line", "point", "text")
 
@@ -128,7 +131,8 @@ def cli() -> None:
 @click.option("--suggest", is_flag=True,
               help="When the palette fails, work out the smallest repair and list it "
                    "(as palettecheck fix does; takes up to a second or two).")
-@common_options
+@common_options(formats=REPORT_FORMATS,
+                format_help="Report: text, json, markdown, or html (one self-contained page).")
 def check_cmd(sources, suggest, backgrounds, kind, mark, severity, cvd_model, min_delta_e, print_safe,
               fail_under, fmt, output):
     """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name), a
@@ -158,7 +162,7 @@ def check_cmd(sources, suggest, backgrounds, kind, mark, severity, cvd_model, mi
         result.suggestions = suggestions(result)
     stem = os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
     emit(render(result, fmt, color=_use_color() and output is None), output, sources,
-         f"{stem}-check.{'json' if fmt == 'json' else 'txt'}")
+         f"{stem}-check.{EXTENSIONS[fmt]}")
     sys.exit(0 if result.passed else 1)
 
 
@@ -173,7 +177,8 @@ def check_cmd(sources, suggest, backgrounds, kind, mark, severity, cvd_model, mi
               help="ΔE' within which colours count as one (default 3; noise, rounding).")
 @click.option("--include-neutrals", is_flag=True,
               help="Check greys as data colours too (by default they are taken for text, axes, grid).")
-@common_options
+@common_options(formats=REPORT_FORMATS,
+                format_help="Report: text, json, markdown, or html (one self-contained page).")
 def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds, kind, fmt, output, **checks):
     """Read the colours out of chart images (PNG, JPEG, WebP, GIF, BMP, TIFF, SVG;
     folders are walked) and check each; prints one line per chart. Exit 1 when a
@@ -193,7 +198,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
     if not report.images and not report.errors:
         raise InputError(f"no chart images found in {', '.join(paths)}")
     emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
-         f"scan.{'json' if fmt == 'json' else 'txt'}")
+         f"scan.{EXTENSIONS[fmt]}")
     sys.exit(report.exit_code)
 
 
