@@ -1,0 +1,233 @@
+"""The Markdown and HTML reports of ``check`` and ``scan``: what they contain, that
+user strings are escaped, that the page is self-contained, and that choosing a
+format never changes an exit code."""
+
+from __future__ import annotations
+
+import html
+import json
+import re
+
+import numpy as np
+import pytest
+
+from conftest import PALETTES
+from palettecheck import Settings, check_palette, read_source
+from palettecheck.color import make_palette
+from palettecheck.perceive import contrast_ratio
+from palettecheck.report import CAUTION, FORMATS, render
+from palettecheck.report.html import text_colour
+from palettecheck.report.markdown import md_escape
+from palettecheck.vision import VISIONS, simulate
+
+BRAND = str(PALETTES / "kestrel-brand.json")
+PASSING = str(PALETTES / "dashboard-five.txt")
+HOSTILE = "<script>alert(1)</script>"
+#: Five invented colours that pass on white, and the brand palette whose red and green merge.
+GOOD = ["#173f73", "#d0621a", "#7b52ae", "#1f8a7a", "#9c1d4f"]
+BAD = ["#1d3b6e", "#b8432f", "#4d8a34", "#8a5a9e", "#0f7c86"]
+
+
+@pytest.fixture(scope="module")
+def brand():
+    return check_palette(read_source(BRAND), Settings())
+
+
+@pytest.fixture
+def hostile(tmp_path):
+    path = tmp_path / "hostile.json"
+    path.write_text(json.dumps([{"hex": "#1d3b6e", "name": HOSTILE}, {"hex": "#b8432f", "name": "Red | Orange"},
+                                {"hex": "#4d8a34", "name": "Tom & Jerry \"q\""}]))
+    return path
+
+
+def svg_chart(path, colours):
+    """A bar chart as the simplest SVG: bars on a white page."""
+    bars = "".join(f'<rect x="{20 + 50 * i}" y="20" width="40" height="160" fill="{c}"/>'
+                   for i, c in enumerate(colours))
+    path.write_text(f'<svg xmlns="http://www.w3.org/2000/svg" width="{40 + 50 * len(colours)}" height="200">'
+                    f'<rect width="100%" height="100%" fill="#ffffff"/>{bars}</svg>')
+
+
+@pytest.fixture
+def charts(tmp_path):
+    root = tmp_path / "charts"
+    root.mkdir()
+    svg_chart(root / "good.svg", GOOD)
+    svg_chart(root / "bad <b>.svg", BAD)
+    return root
+
+
+def rgb(hex_: str) -> np.ndarray:
+    return np.array([int(hex_[i:i + 2], 16) for i in (1, 3, 5)], dtype=float)
+
+
+def table_rows(text: str) -> list[list[str]]:
+    """The cells of every Markdown table row (an escaped ``\\|`` is not a separator)."""
+    return [re.split(r"(?<!\\)\|", line.strip())[1:-1] for line in text.splitlines() if line.startswith("|")]
+
+
+def inline_colours(page: str, cls: str) -> list[list[str]]:
+    """Background colours of the ``cls`` elements, grouped per strip."""
+    strips = re.findall(r'<div class="strip"[^>]*>(.*?)</div>', page)
+    return [re.findall(rf'class="{cls}" style="background:(#[0-9a-f]{{6}})', s) for s in strips]
+
+
+# --- Markdown -----------------------------------------------------------------------
+
+def test_markdown_check_has_every_part(brand):
+    md = render(brand, "markdown")
+    for heading in ("# Colour check: ", "## How it was checked", "## Colours", "## Findings",
+                    "### Errors (1)", "### Warnings (6)", "## How the score was reached"):
+        assert f"\n{heading}" in "\n" + md, heading
+    assert md_escape(CAUTION) in md and "**Result: fails, score 69 of 100" in md
+    for w in brand.palette:
+        assert f"`{w.hex}`" in md and w.name in md
+    for f in brand.findings:
+        assert md_escape(f.message) in md
+    for check, _, _ in brand.score.breakdown:
+        assert f"| {check} |" in md
+    rows = table_rows(md)
+    assert rows and all(len(r) in (2, 3, 5) for r in rows)  # settings, score, colours (one background)
+
+
+def test_markdown_escapes_names(hostile):
+    md = render(check_palette(read_source(str(hostile))), "markdown")
+    assert "Red \\| Orange" in md and "\\<script\\>alert(1)\\</script\\>" in md
+    assert not re.search(r"(?<!\\)<", md)  # no tag a renderer would act on
+    colours = [r for r in table_rows(md) if len(r) == 5]
+    assert len(colours) == 2 + 3 and {len(r) for r in colours} == {5}  # header, rule, 3 colours
+
+
+@pytest.mark.parametrize("text, start, escaped", [
+    ("A | B", False, "A \\| B"), ("# head", True, "\\# head"), ("# head", False, "# head"),
+    ("12. twelve", True, "12\\. twelve"), ("- dash", True, "\\- dash"), ("#1d3b6e", True, "#1d3b6e"),
+    ("two\nlines", False, "two lines"), ("*a* _b_ `c`", False, "\\*a\\* \\_b\\_ \\`c\\`"),
+])
+def test_md_escape(text, start, escaped):
+    assert md_escape(text, start) == escaped
+
+
+# --- HTML ---------------------------------------------------------------------------
+
+def test_html_check_has_every_part(brand):
+    page = render(brand, "html")
+    assert page.startswith("<!DOCTYPE html>") and page.rstrip().endswith("</html>")
+    for heading in ("How it was checked", "Colours", "The palette as each reader sees it", "Findings",
+                    "How the score was reached"):
+        assert f">{heading}</h2>" in page, heading
+    assert html.escape(CAUTION) in page and "<strong>Fails</strong>" in page
+    for w in brand.palette:
+        assert w.hex in page and html.escape(w.name) in page
+    for f in brand.findings:
+        assert html.escape(f.message) in page
+    assert page.count('<div class="strip"') == len(VISIONS)
+
+
+def test_html_strips_follow_the_settings():
+    """Each strip is the palette simulated with the check's severity and model."""
+    settings = Settings(severity=0.5, cvd_model="brettel", backgrounds=("#1b1b1b",))
+    result = check_palette(read_source(BRAND), settings)
+    page = render(result, "html")
+    strips = inline_colours(page, "cell")
+    frames = re.findall(r'<div class="strip" style="background:(#[0-9a-f]{6})', page)
+    assert len(strips) == len(VISIONS)
+    for vision, cells, frame in zip(VISIONS, strips, frames):
+        seen = np.clip(np.floor(simulate(result.palette.rgb255, vision, 0.5, "brettel") + 0.5), 0, 255)
+        assert cells == ["#{:02x}{:02x}{:02x}".format(*c) for c in seen.astype(int)], vision
+        page_rgb = np.clip(np.floor(simulate(np.array([27.0, 27, 27]), vision, 0.5, "brettel") + 0.5), 0, 255)
+        assert frame == "#{:02x}{:02x}{:02x}".format(*page_rgb.astype(int))
+    assert "severity 0.5, model brettel" in page
+
+
+def test_html_text_on_colour_is_readable(brand):
+    assert text_colour("#ffffff") == "#000000" and text_colour("#000000") == "#ffffff"
+    page = render(brand, "html")
+    pairs = re.findall(r'style="background:(#[0-9a-f]{6});color:(#[0-9a-f]{6})"', page)
+    assert len(pairs) > 3 * len(brand.palette)
+    assert min(float(contrast_ratio(rgb(b), rgb(t))) for b, t in pairs) >= 4.5  # sqrt(21) is the floor
+
+
+def test_html_escapes_user_strings(hostile):
+    page = render(check_palette(read_source(str(hostile))), "html")
+    assert "<script" not in page and html.escape(HOSTILE) in page
+    assert "Tom &amp; Jerry &quot;q&quot;" in page and "Red | Orange" in page
+
+
+def test_html_is_self_contained(brand):
+    page = render(brand, "html")
+    for banned in ("http://", "https://", "<script", "<link", "@import", "url(", "<img", "<iframe", "src="):
+        assert banned not in page, banned
+    assert '<meta name="color-scheme" content="light dark">' in page
+    assert "prefers-color-scheme: dark" in page and "@media print" in page
+
+
+def test_html_colour_strings_reach_styles_only_as_hex():
+    palette = make_palette([("#abc", None, False), ("rgb(10 20 30)", "x", False)])
+    page = render(check_palette(palette), "html")
+    styles = re.findall(r'style="([^"]*)"', page)
+    assert styles and all(re.fullmatch(r"background:#[0-9a-f]{6}(;color:#[0-9a-f]{6})?", s) for s in styles)
+
+
+# --- the command line ---------------------------------------------------------------
+
+@pytest.mark.parametrize("fmt", ["markdown", "html"])
+def test_check_formats_keep_exit_codes(invoke, fmt):
+    failing = invoke("check", BRAND, "--format", fmt)
+    assert failing.exit_code == 1 and CAUTION[:40] in failing.stdout
+    assert invoke("check", PASSING, "--format", fmt).exit_code == 0
+    assert invoke("check", "#1d3b6e", "#1d3b6f", "--fail-under", "101", "--format", fmt).exit_code == 2
+    res = invoke("check", "nosuch.json", "--format", fmt)
+    assert res.exit_code == 2 and res.stdout == "" and len(res.stderr.strip().splitlines()) == 1
+
+
+def test_every_report_format_is_offered(invoke):
+    for command in ("check", "scan"):
+        res = invoke(command, "--help")
+        assert all(f in res.stdout for f in FORMATS)
+    for command in ("fix", "generate categorical"):
+        res = invoke(*command.split(), "#1d3b6e", "--format", "html")
+        assert res.exit_code == 2 and "--format" in res.stderr  # these keep their own formats
+
+
+@pytest.mark.parametrize("fmt, ext", [("markdown", "md"), ("html", "html")])
+def test_reports_into_a_folder_get_the_extension(invoke, tmp_path, charts, fmt, ext):
+    out = tmp_path / "reports"
+    out.mkdir()
+    assert invoke("check", BRAND, "--format", fmt, "--output", str(out)).exit_code == 1
+    assert invoke("scan", str(charts), "--jobs", "1", "--format", fmt, "--output", str(out)).exit_code == 1
+    assert sorted(p.name for p in out.iterdir()) == sorted([f"kestrel-brand-check.{ext}", f"scan.{ext}"])
+    assert CAUTION[:40] in (out / f"scan.{ext}").read_text(encoding="utf-8")
+
+
+def test_scan_markdown(invoke, charts):
+    (charts / "broken.png").write_bytes(b"\x89PNG\r\n\x1a\n")
+    res = invoke("scan", str(charts), "--jobs", "1", "--format", "markdown")
+    assert res.exit_code == 2 and "broken.png" in res.stderr  # unreadable file: same code as text
+    md = res.stdout
+    assert md.startswith("# Chart scan\n") and md_escape(CAUTION) in md
+    assert "2 charts checked: 1 passed, 1 failed; 1 file could not be read" in md
+    rows = table_rows(md)
+    assert rows[0] == [" chart ", " background ", " colours ", " score ", " result ", " main problem "]
+    results = {r[0].strip(): r[4].strip() for r in rows[2:]}
+    assert results == {md_escape(charts / "bad <b>.svg"): "fails", md_escape(charts / "good.svg"): "passes",
+                       md_escape(charts / "broken.png"): "not read"}
+
+
+def test_scan_html(invoke, charts):
+    res = invoke("scan", str(charts), "--jobs", "1", "--format", "html")
+    assert res.exit_code == 1
+    page = res.stdout
+    for banned in ("http://", "https://", "<script", "<b>"):
+        assert banned not in page, banned
+    assert html.escape(CAUTION) in page and ">Charts</h2>" in page
+    assert page.count('<section class="chart"') == 2 and page.count('<div class="strip"') == 2 * len(VISIONS)
+    assert html.escape(str(charts / "bad <b>.svg")) in page
+    for k in (1, 2):
+        assert f'href="#chart-{k}"' in page and f'id="chart-{k}"' in page
+    for hex_ in GOOD + BAD:
+        assert hex_ in page
+    json_out = json.loads(invoke("scan", str(charts), "--jobs", "1", "--format", "json").stdout)
+    for image in json_out["images"]:
+        for f in image["findings"]:
+            assert html.escape(f["message"]) in page
