@@ -279,7 +279,8 @@ def _share(hex_: str, share: float) -> str:
 def _reading(check) -> list[str]:
     """What was read out of one chart image: background, scale, colours, greys."""
     r = check.reading
-    found = "found in the image" if r.background_from == "detected" else "given (the image is transparent)"
+    found = ("found in the image" if r.background_from == "detected"
+             else "none found in the image, so the first --background is used")
     scale = r.scale if r.scale != "continuous" else f"continuous ({r.ramp_kind})"
     colours = " ".join(_share(h, x) for h, x in r.colors) or "none"
     greys = " ".join(_share(h, x) for h, x in r.neutrals) or "none"
