@@ -180,8 +180,10 @@ def check_cmd(sources, suggest, backgrounds, kind, mark, severity, cvd_model, mi
 @common_options(formats=REPORT_FORMATS,
                 format_help="Report: text, json, markdown, or html (one self-contained page).")
 def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds, kind, fmt, output, **checks):
-    """Read the colours out of chart images (PNG, JPEG, WebP, GIF, BMP, TIFF, SVG;
-    folders are walked) and check each; prints one line per chart. Exit 1 when a
+    """Check the colours of every chart image under PATHS.
+
+    Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
+    prints one line per chart. Exit 1 when a
     chart fails, 2 when a file could not be read (the others are still checked)."""
     from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from .report.summary import render_scan
@@ -328,8 +330,9 @@ def fix_cmd(sources, keep, fmt, output, **options):
 @click.option("--cvd-model", type=click.Choice(["machado", "brettel"]), default=None,
               help="CVD simulation model (default machado).")
 def simulate_cmd(image, output, severity, cvd_model):
-    """Write what a chart image looks like under each simulated vision, one PNG per
-    vision plus a sheet of all of them side by side."""
+    """Show a chart image as each simulated vision sees it.
+
+    Writes one PNG per vision plus a sheet of all of them side by side."""
     from pathlib import Path
 
     from .readers import ReadError

@@ -209,7 +209,7 @@ def check_body(result, level: int = 2) -> list[str]:
 
         out += [f"<{h}>The palette as each reader sees it</{h}>",
                 f'<p class="muted">Each row is the palette simulated for one vision ({_e(sev)}model '
-                f"{_e(s.cvd_model)}) on the first background. Numbers that look alike in a row are "
+                f"{_e(s.cvd_model)}) on the first background. Swatches that look alike in a row are "
                 f"colours those readers confuse.</p>"]
         out += _views(result)
     else:
