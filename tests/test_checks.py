@@ -24,7 +24,7 @@ def checks_of(result, severity=None):
 
 
 # Stone, Szafir & Setlur 2014 (CIC 22), ND(p, s) = p (A + B/s); test values from
-# REFERENCES.md section 7 (two independent transcriptions agree; paper not read).
+# REFERENCES.md section 7 (two independent copies of the constants agree; paper not read).
 @pytest.mark.parametrize("p, s, expected", [
     (0.5, 1.0, (5.83, 6.88, 8.22)),
     (0.5, 1 / 3, (7.33, 9.96, 13.96)),
