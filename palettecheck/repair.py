@@ -137,12 +137,11 @@ def _moves(before: CheckResult, after: CheckResult, viewing) -> list[Move]:
     u0, u1 = to_ucs(old.rgb255[changed], viewing), to_ucs(new.rgb255[changed], viewing)
     de = np.linalg.norm(u1 - u0, axis=-1)
     dh = (_hue(u1) - _hue(u0) + 180.0) % 360.0 - 180.0
+    remaining = _error_keys(after)
     out = []
     for k, i in enumerate(changed):
-        gone = tuple(f.message for f in before.findings
-                     if f.severity == "error" and i in f.indices and
-                     not any(g.check == f.check and g.indices == f.indices and g.severity == "error"
-                             for g in after.findings))
+        gone = tuple(f.message for f in before.findings if f.severity == "error" and i in f.indices
+                     and (f.check, f.indices) not in remaining)
         out.append(Move(i, old[i].hex, new[i].hex, float(de[k]), float(dh[k]), gone))
     return out
 
