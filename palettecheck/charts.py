@@ -229,7 +229,7 @@ def _warm() -> None:
     from .readers import raster, svg  # noqa: F401
     from .color import make_palette
 
-    check_palette(make_palette([("#1f6f8b", None, False), ("#e69f00", None, False)]), Settings())
+    check_palette(make_palette([("#1f6f8b", None, False), ("#d9a23b", None, False)]), Settings())
 
 
 def default_jobs() -> int:

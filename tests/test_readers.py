@@ -11,10 +11,10 @@ from conftest import PALETTES
 
 def test_text_with_names_comments_and_locks(tmp_path):
     f = tmp_path / "p.txt"
-    f.write_text("# header comment\n#1F6F8B  Harbour teal\nrgb(230, 159, 0) Amber !\n\n"
+    f.write_text("# header comment\n#1F6F8B  Harbour teal\nrgb(217, 162, 59) Amber !\n\n"
                  "Revenue: hsl(200 50% 40%)\n// note\n#abc\n")
     p = read_source(str(f))
-    assert p.hexes[:2] == ["#1f6f8b", "#e69f00"]
+    assert p.hexes[:2] == ["#1f6f8b", "#d9a23b"]
     assert [s.name for s in p] == ["Harbour teal", "Amber", "Revenue", None]
     assert [s.locked for s in p] == [False, True, False, False]
 

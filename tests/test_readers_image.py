@@ -191,7 +191,7 @@ def test_svg_paint_rules(tmp_path):
       <rect id="odd" class="bar" x="50" y="10" width="30" height="80"/>
       <use xlink:href="#tpl" x="90" y="10"/><use href="#tpl" x="90" y="40"/><use href="#tpl" x="90" y="70"/>
       <g color="#8a1c7c"><rect x="120" y="10" width="20" height="60" fill="currentColor"/></g>
-      <rect x="150" y="10" width="20" height="60" style="fill: #d62728; fill-opacity: 0.5"/>
+      <rect x="150" y="10" width="20" height="60" style="fill: #c8362c; fill-opacity: 0.5"/>
       <rect x="175" y="10" width="20" height="60" fill="url(#g)"/>
       <rect class="hidden" x="0" y="0" width="50" height="50" fill="#00ff00"/>
       <rect x="0" y="0" width="50" height="50" fill="#00ffff" visibility="hidden"/>
@@ -201,7 +201,7 @@ def test_svg_paint_rules(tmp_path):
     reading = palettecheck.read_image(path)
     assert reading.background == "#fbfaf7"
     half_red = "#{:02x}{:02x}{:02x}".format(*(round(0.5 * c + 0.5 * b) for c, b in
-                                               zip(hex_rgb("#d62728"), hex_rgb("#fbfaf7"))))
+                                               zip(hex_rgb("#c8362c"), hex_rgb("#fbfaf7"))))
     assert found(reading) == sorted(["#1d5a8c", "#c2571a", "#2f8a4c", "#8a1c7c", half_red, "#6a3d9a", "#e3a21a"])
     assert [h for h, _ in reading.neutrals] == ["#333333"]
     assert any("too complex" in n for n in reading.notes)  # the 'g > rect' rule

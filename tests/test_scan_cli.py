@@ -161,7 +161,7 @@ def test_check_reads_a_chart_image(invoke, charts):
 
 def test_checking_a_colour_does_not_load_image_libraries():
     code = ("import sys\nfrom palettecheck.cli import main\n"
-            "try:\n    main(['check', '#1f6f8b', '#e69f00'])\nexcept SystemExit:\n    pass\n"
+            "try:\n    main(['check', '#1f6f8b', '#d9a23b'])\nexcept SystemExit:\n    pass\n"
             "print(sorted(m for m in ('PIL', 'matplotlib', 'defusedxml') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip().splitlines()[-1] == "[]"

@@ -1,6 +1,6 @@
 """JSON palettes, in three shapes:
 
-- a list: ``["#1f6f8b", {"hex": "#e69f00", "name": "Amber", "locked": true}, ...]``
+- a list: ``["#1f6f8b", {"hex": "#d9a23b", "name": "Amber", "locked": true}, ...]``
 - an object of name -> colour: ``{"Harbour teal": "#1f6f8b", ...}``
 - W3C design tokens (Design Tokens Community Group format): nested groups whose
   leaves have ``"$value"`` and ``"$type": "color"`` (the type may be inherited

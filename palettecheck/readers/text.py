@@ -2,7 +2,7 @@
 
     # comments start with '#' followed by a space, or with '//'
     #1f6f8b  Harbour teal
-    rgb(230, 159, 0)  Amber
+    rgb(217, 162, 59)  Amber
     Revenue: #2a7f62        (a name before a colon works too)
 
 Append ``!`` or ``(locked)`` to a line to lock that colour.
