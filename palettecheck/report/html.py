@@ -19,7 +19,8 @@ from html import escape
 import numpy as np
 
 from . import CAUTION
-from .markdown import (SEVERITY_TITLES, closest_text, colour_facts, ratio_text, scan_rows, scan_tally,
+from .facts import colour_facts, ratio_text
+from .markdown import (SEVERITY_TITLES, closest_text, scan_rows, scan_tally,
                        settings_rows, suggestion_texts, verdict)
 
 __all__ = ["render_html", "render_scan_html", "text_colour"]

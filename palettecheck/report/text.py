@@ -2,11 +2,8 @@
 
 from __future__ import annotations
 
-import math
-
-import numpy as np
-
 from . import CAUTION
+from .facts import colour_facts, ratio_text
 
 _MARK = {"error": "x", "warning": "!", "info": "-"}
 
@@ -28,26 +25,16 @@ def _paint(text: str, severity: str, color: bool) -> str:
 def colour_rows(result, color: bool) -> list[str]:
     """One row per colour: swatch, hex, name, contrast per background, closest
     neighbour and under which vision."""
-    p, s = result.perceived, result.settings
-    n = len(p.rgb255)
+    s = result.settings
     names = [w.name or "" for w in result.palette]
     width = max([len(x) for x in names] + [4])
     bgs = "  ".join(f"vs {b:<7}" for b in s.backgrounds)
     lines = [f"  {'#':>2}  {'':{5 if color else 0}}{'colour':8} {'name':{width}}  {bgs}  closest (ΔE', vision)"]
-    stack = np.stack([p.delta[v] for v in s.visions])  # (V, n, n)
-    for i, w in enumerate(result.palette):
-        ratios = "  ".join(f"{math.floor(p.contrast[i, k] * 100) / 100:>5.2f}:1  " for k in range(len(s.backgrounds)))
-        near = "-"
-        if n > 1:
-            if s.kind == "categorical":
-                others = [j for j in range(n) if j != i]
-            else:
-                others = [j for j in (i - 1, i + 1) if 0 <= j < n]
-            vals = stack[:, i, others]  # (V, k)
-            v, k = np.unravel_index(np.argmin(vals), vals.shape)
-            near = f"{vals[v, k]:5.1f} to #{others[k] + 1} ({s.visions[v]})"
-        lock = " (locked)" if w.locked else ""
-        lines.append(f"  {i + 1:>2}  {swatch(w.hex, color)}{w.hex:8} {names[i]:{width}}  {ratios}  {near}{lock}")
+    for f in colour_facts(result):
+        ratios = "  ".join(f"{ratio_text(r):>7}  " for r, _ in f.contrast)
+        near = "-" if f.closest is None else f"{f.closest[0]:5.1f} to #{f.closest[1] + 1} ({f.closest[2]})"
+        lock = " (locked)" if f.locked else ""
+        lines.append(f"  {f.index + 1:>2}  {swatch(f.hex, color)}{f.hex:8} {names[f.index]:{width}}  {ratios}  {near}{lock}")
     return lines
 
 
