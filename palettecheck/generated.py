@@ -95,7 +95,7 @@ def _count(n: int, lo: int, hi: int, kind: str, why: str) -> int:
     if isinstance(n, bool) or not isinstance(n, (int, np.integer)):
         raise GenerateError(f"-n {n!r}: the number of colours must be a whole number")
     if n < lo:
-        raise GenerateError(f"-n {n}: a {kind} palette needs at least {lo} colour{"s" if lo != 1 else ""}")
+        raise GenerateError(f"-n {n}: a {kind} palette needs at least {lo} colour{'s' if lo != 1 else ''}")
     if n > hi:
         raise GenerateError(f"-n {n}: a {kind} palette takes at most {hi} colours ({why})")
     return int(n)
