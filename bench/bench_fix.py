@@ -19,12 +19,13 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "tests"))
 
+from helpers import naive_movement  # noqa: E402
+
 from palettecheck.color import Palette, Swatch, to_hex  # noqa: E402
 from palettecheck.config import Settings  # noqa: E402
 from palettecheck.judge import check_palette  # noqa: E402
 from palettecheck.perceive import from_ucs, to_ucs  # noqa: E402
 from palettecheck.repair import repair  # noqa: E402
-from test_repair import naive_movement  # noqa: E402
 
 # Ten colours that pass on white, made once with `palettecheck generate categorical -n 10`.
 TEN = ["#ff6202", "#4e10a8", "#560112", "#9b89ae", "#608a6f",

@@ -47,8 +47,8 @@ def process(args: list[str], repeats: int = 3) -> float:
 
 
 def main() -> None:
-    from palettecheck.categorical import DEFAULT_BUDGET, categorical
-    from palettecheck.ramps import diverging, sequential
+    from palettecheck.generate.categorical import DEFAULT_BUDGET, categorical
+    from palettecheck.generate.ramps import diverging, sequential
 
     t_cat, cat = timed(lambda: categorical(10, KEPT), 3)
     t0 = time.perf_counter()

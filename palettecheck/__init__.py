@@ -1,12 +1,33 @@
 """palettecheck: can every reader tell a chart's colours apart? And if not, what to use.
 
+The pipeline runs one way, one package per stage (see docs/architecture.md):
+``read`` → ``perceive`` → ``judge`` → ``generate`` / ``repair`` → ``report``.
+
 The public names are few; each is imported from its module only when first used,
-so ``import palettecheck`` stays cheap (no matplotlib, no Pillow).
+so ``import palettecheck`` stays cheap (no numpy, matplotlib or Pillow).
 """
 
-from importlib import import_module
+from __future__ import annotations
 
-__version__ = "0.1.0"
+from importlib import import_module
+from typing import TYPE_CHECKING
+
+from .terms import VERSION as __version__
+
+if TYPE_CHECKING:  # what editors and type checkers see; at run time each loads on first use
+    from .color import Palette as Palette
+    from .color import Swatch as Swatch
+    from .color import parse_color as parse_color
+    from .config import Settings as Settings
+    from .generate import colormap as colormap
+    from .generate import generate_palette as generate_palette
+    from .judge import CheckResult as CheckResult
+    from .judge import check_figure as check_figure
+    from .judge import check_palette as check_palette
+    from .judge import scan as scan
+    from .read import read_image as read_image
+    from .read import read_source as read_source
+    from .read import read_sources as read_sources
 
 _LAZY = {
     "Palette": "color",
@@ -15,13 +36,13 @@ _LAZY = {
     "Settings": "config",
     "check_palette": "judge",
     "CheckResult": "judge",
-    "read_source": "readers",
-    "read_sources": "readers",
-    "read_image": "charts",
-    "scan": "charts",
-    "check_figure": "charts",
+    "read_source": "read",
+    "read_sources": "read",
+    "read_image": "read",
+    "scan": "judge",
+    "check_figure": "judge",
     "generate_palette": "generate",
-    "colormap": "ramps",
+    "colormap": "generate",
 }
 
 __all__ = ["__version__", *_LAZY]

@@ -17,11 +17,9 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from .errors import ColorError
+
 __all__ = ["ColorError", "Swatch", "Palette", "parse_color", "opaque_hex", "to_hex", "make_palette"]
-
-
-class ColorError(ValueError):
-    """A colour string or palette that cannot be used."""
 
 
 WHITE = (255.0, 255.0, 255.0)

@@ -11,6 +11,8 @@ References
   22, 253-258. Per-axis CIELAB step noticeable by a fraction p of observers for a
   mark of visual angle s degrees: ND(p, s) = p * (A + B / s), with (A, B) =
   L (10.16, 1.50), a (10.68, 3.08), b (10.70, 5.74).
+- [CIE159] CIE 159:2004, CIECAM02 (the viewing-condition symbols L_A, Y_b).
+- [Luo2006] Luo, Cui & Li (2006), CAM02-UCS; see :mod:`palettecheck.perceive.ucs`.
 - [WCAG21] SC 1.4.3 / 1.4.6 (text 4.5:1 and 7:1), SC 1.4.11 (graphical objects 3:1).
 """
 
@@ -22,18 +24,40 @@ import os
 from dataclasses import dataclass, fields
 from pathlib import Path
 
-__all__ = ["Settings", "MARK_ANGLE", "noticeable_difference", "mark_threshold", "load_settings", "SettingsError"]
+from .color import opaque_hex
+from .errors import ColorError, SettingsError
+from .terms import CVD_MODELS, DEFAULT_VISIONS, KINDS, MARKS, SURROUNDS, VISIONS
+
+__all__ = ["Settings", "Viewing", "SRGB_VIEWING", "MARK_ANGLE", "noticeable_difference", "mark_threshold",
+           "load_settings", "settings_from", "parse_band", "SettingsError"]
 
 
-class SettingsError(ValueError):
-    """A ``[tool.palettecheck]`` table or option value that cannot be used."""
+@dataclass(frozen=True)
+class Viewing:
+    """CIECAM02 viewing conditions [CIE159]; symbols follow the paper.
+
+    :param XYZ100_w: white point, Y = 100 (a name such as ``"D65"`` or three numbers).
+    :param Y_b: relative luminance of the background, percent.
+    :param L_A: adapting luminance, cd/m².
+    :param surround: ``"average"``, ``"dim"`` or ``"dark"``.
+    """
+
+    XYZ100_w: object = "D65"
+    Y_b: float = 20.0
+    L_A: float = (64 / math.pi) * 0.2
+    surround: str = "average"
+
+
+#: The sRGB reference display: 64 lux ambient, 20 % grey background, average surround
+#: (the defaults of colorspacious and of [Luo2006]'s sRGB use).
+SRGB_VIEWING = Viewing()
 
 
 #: Visual angle, in degrees, assumed for each kind of mark: a bar or area fill
 #: about 2 deg, a scatter point about 0.5 deg, a thin line or a text stroke about
 #: 1/3 deg, the smallest size [Stone2014] measured. (Assumed viewing of a desktop
 #: chart at arm's length: common practice, no source.)
-MARK_ANGLE = {"area": 2.0, "point": 0.5, "line": 1 / 3, "text": 1 / 3}
+MARK_ANGLE = dict(zip(MARKS, (2.0, 1 / 3, 0.5, 1 / 3)))
 
 _ND = {"L": (10.16, 1.50), "a": (10.68, 3.08), "b": (10.70, 5.74)}
 
@@ -63,7 +87,7 @@ class Settings:
     kind: str = "categorical"  #: categorical, sequential or diverging
     mark: str = "area"  #: area, line, point or text
     backgrounds: tuple[str, ...] = ("#ffffff",)
-    visions: tuple[str, ...] = ("normal", "protanopia", "deuteranopia", "tritanopia")
+    visions: tuple[str, ...] = DEFAULT_VISIONS
     severity: float = 1.0  #: CVD severity 0-1 (Machado et al. 2009)
     #: CVD simulation: machado (Machado et al. 2009) or brettel (Brettel et al. 1997)
     cvd_model: str = "machado"
@@ -94,9 +118,7 @@ class Settings:
     surround: str = "average"  #: average, dim or dark
 
     @property
-    def viewing(self):
-        from .perceive import Viewing
-
+    def viewing(self) -> Viewing:
         return Viewing(Y_b=self.Y_b, L_A=self.L_A, surround=self.surround)
 
     @property
@@ -114,10 +136,8 @@ class Settings:
         return self.text_contrast if self.mark == "text" else self.graphic_contrast
 
     def validate(self) -> "Settings":
-        from .vision import VISIONS
-
-        if self.kind not in ("categorical", "sequential", "diverging"):
-            raise SettingsError(f"kind must be categorical, sequential or diverging, not {self.kind!r}")
+        if self.kind not in KINDS:
+            raise SettingsError(f"kind must be {_one_of(KINDS)}, not {self.kind!r}")
         if self.mark not in MARK_ANGLE:
             raise SettingsError(f"mark must be one of {', '.join(MARK_ANGLE)}, not {self.mark!r}")
         bad = [v for v in self.visions if v not in VISIONS]
@@ -125,8 +145,8 @@ class Settings:
             raise SettingsError(f"visions must be chosen from {', '.join(VISIONS)}, not {bad or 'none'}")
         if not 0.0 <= self.severity <= 1.0:
             raise SettingsError(f"severity must lie in 0-1, not {self.severity}")
-        if self.cvd_model not in ("machado", "brettel"):
-            raise SettingsError(f"cvd_model must be machado or brettel, not {self.cvd_model!r}")
+        if self.cvd_model not in CVD_MODELS:
+            raise SettingsError(f"cvd_model must be {_one_of(CVD_MODELS)}, not {self.cvd_model!r}")
         if not self.backgrounds:
             raise SettingsError("at least one background is needed")
         for name in ("comfort_factor", "graphic_contrast", "text_contrast", "enhanced_contrast"):
@@ -134,17 +154,28 @@ class Settings:
                 raise SettingsError(f"{name} must be at least 1, not {getattr(self, name)}")
         if self.min_delta_e is not None and not self.min_delta_e > 0:
             raise SettingsError(f"min_delta_e must be positive, not {self.min_delta_e}")
-        if self.surround not in ("average", "dim", "dark"):
-            raise SettingsError(f"surround must be average, dim or dark, not {self.surround!r}")
+        if self.surround not in SURROUNDS:
+            raise SettingsError(f"surround must be {_one_of(SURROUNDS)}, not {self.surround!r}")
         if not (self.L_A > 0 and 0 < self.Y_b <= 100):
             raise SettingsError(f"L_A must be positive and Y_b in (0, 100], not {self.L_A}, {self.Y_b}")
         if not 0 <= self.fail_under <= 100:
             raise SettingsError(f"fail_under must lie in 0-100, not {self.fail_under}")
         return self
 
+    def with_min_contrast(self, ratio: float | None) -> "Settings":
+        """A copy whose mark (text or graphics) needs ``ratio`` against the
+        background; None keeps the default."""
+        if ratio is None:
+            return self
+        return self.updated(**{"text_contrast" if self.mark == "text" else "graphic_contrast": ratio})
+
     def updated(self, **changes) -> "Settings":
         """A copy with the given fields changed (``None`` values are ignored)."""
         return dataclasses.replace(self, **{k: v for k, v in changes.items() if v is not None}).validate()
+
+
+def _one_of(words) -> str:
+    return f"{', '.join(words[:-1])} or {words[-1]}"
 
 
 def find_pyproject(start: Path | None = None) -> Path | None:
@@ -184,3 +215,44 @@ def load_settings(start: Path | None = None) -> Settings:
         return dataclasses.replace(Settings(), **changes).validate()
     except (SettingsError, TypeError) as e:
         raise SettingsError(f"{path}: {e}") from None
+
+
+def _background_hex(text: str, where: str) -> str:
+    try:
+        return opaque_hex(text)
+    except ColorError as e:
+        raise SettingsError(f"{where}: {e}") from None
+
+
+def settings_from(options: dict, start: Path | None = None) -> Settings:
+    """Defaults, then the nearest ``[tool.palettecheck]``, then ``options`` (options win).
+
+    ``options`` maps :class:`Settings` fields to values; ``None`` (or an empty
+    ``backgrounds``) means "not given". Backgrounds are normalised to ``#rrggbb``;
+    the visions given always include normal vision.
+    :raises SettingsError: naming the option or key at fault.
+    """
+    settings = load_settings(start)
+    changes = dict(options)
+    if changes.get("backgrounds"):
+        changes["backgrounds"] = tuple(_background_hex(b, "--background") for b in changes["backgrounds"])
+    else:
+        changes["backgrounds"] = tuple(_background_hex(b, "[tool.palettecheck] backgrounds")
+                                       for b in settings.backgrounds)
+    if changes.get("visions"):
+        changes["visions"] = tuple(dict.fromkeys(("normal", *changes["visions"])))
+    return settings.updated(**changes)
+
+
+def parse_band(text: str) -> tuple[float, float]:
+    """A lightness band ``MIN:MAX`` (J', 0-100) as two numbers.
+
+    :raises SettingsError: when the text is not two numbers with a colon between.
+    """
+    try:
+        band = tuple(float(x) for x in text.split(":"))
+    except ValueError:
+        band = ()
+    if len(band) != 2:
+        raise SettingsError(f"{text!r}: expected MIN:MAX, two numbers (J', 0-100)")
+    return band

@@ -9,7 +9,7 @@ Which colours move
     unlocked colours move.
 
 How far they move
-    For a given set, :func:`palettecheck.search.search` minimises the total
+    For a given set, :func:`palettecheck.generate.search.search` minimises the total
     perceptual movement (ΔE' from each colour's original, its hue part weighted
     ``HUE_WEIGHT`` times, so a teal stays a teal) subject to every pair's ΔE'
     reaching the error threshold under every vision of the check, the contrast the
@@ -20,15 +20,25 @@ How far they move
 from __future__ import annotations
 
 import itertools
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from .color import ColorError, Palette, parse_color, to_hex
+from .color import Palette, parse_color, to_hex
 from .config import Settings
-from .judge import CheckResult, check_palette
-from .perceive import contrast_ratio, to_ucs
-from .search import Goal, Problem, Region, candidate_pool, movement, pair_mask, search
+from .errors import ColorError, RepairError
+from .generate.search import (
+    Goal,
+    Problem,
+    Region,
+    candidate_pool,
+    movement,
+    pair_mask,
+    search,
+)
+from .judge.result import CheckResult, check_palette
+from .perceive.ucs import to_ucs
+from .perceive.wcag import contrast_ratio
 
 __all__ = ["Move", "Repair", "RepairError", "repair", "suggestions", "HUE_WEIGHT", "ALTERNATIVES"]
 
@@ -51,10 +61,6 @@ ALTERNATIVES = (
     "add a second cue: dash styles for lines, marker shapes for points, patterns for areas",
     "encode the category by position instead (small multiples, one panel per series)",
 )
-
-
-class RepairError(ValueError):
-    """Options that contradict each other or the palette (exit code 2 on the command line)."""
 
 
 @dataclass(frozen=True)
@@ -89,8 +95,6 @@ class Repair:
         return float(sum(m.delta_e for m in self.moves))
 
     def to_dict(self) -> dict:
-        from .report import CAUTION
-
         return {
             "palette": [{"hex": s.hex, **({"name": s.name} if s.name else {}), "locked": s.locked}
                         for s in self.palette],
@@ -100,7 +104,6 @@ class Repair:
             "passed": self.passed,
             "explanation": list(self.explanation),
             "advice": list(self.advice),
-            "caution": CAUTION,
         }
 
 
@@ -120,8 +123,6 @@ def _lock(palette: Palette, keep) -> Palette:
             raise RepairError(f"--keep {text}: {to_hex(rgb)} is not in the palette")
         for i in hits:
             locked[i] = True
-    from dataclasses import replace
-
     return replace(palette, swatches=tuple(replace(s, locked=k) for s, k in zip(palette, locked)))
 
 
@@ -207,7 +208,7 @@ def repair(palette: Palette, settings: Settings | None = None, keep=(), *, budge
     explained; the others are still repaired.
 
     :param keep: colours (CSS strings) to lock in addition to the palette's own locks.
-    :param budget: search starts per colour set (see :func:`palettecheck.search.search`).
+    :param budget: search starts per colour set (see :func:`palettecheck.generate.search.search`).
     """
     settings = settings or Settings()
     palette = _lock(palette, keep)

@@ -9,10 +9,15 @@ from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
 from palettecheck.color import make_palette
-from palettecheck.config import MARK_ANGLE, Settings, mark_threshold, noticeable_difference
+from palettecheck.config import (
+    MARK_ANGLE,
+    Settings,
+    mark_threshold,
+    noticeable_difference,
+)
 from palettecheck.judge import check_palette
+from palettecheck.judge.score import score_findings
 from palettecheck.perceive import from_ucs, to_ucs
-from palettecheck.score import score_findings
 
 
 def pal(*colours, **kw):

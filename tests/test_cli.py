@@ -4,7 +4,6 @@ import json
 import os
 
 import pytest
-
 from conftest import PALETTES
 
 BRAND = str(PALETTES / "kestrel-brand.json")

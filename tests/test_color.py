@@ -9,7 +9,14 @@ import math
 import numpy as np
 import pytest
 
-from palettecheck.color import ColorError, Palette, Swatch, make_palette, parse_color, to_hex
+from palettecheck.color import (
+    ColorError,
+    Palette,
+    Swatch,
+    make_palette,
+    parse_color,
+    to_hex,
+)
 
 try:  # tests/ as a package or as a plain folder on sys.path
     from . import reference_values as ref

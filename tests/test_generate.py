@@ -9,14 +9,25 @@ import matplotlib
 import numpy as np
 import pytest
 
-from palettecheck.categorical import DEFAULT_BUDGET, categorical, categorical_problem
 from palettecheck.color import Palette, Swatch, parse_color, to_hex
 from palettecheck.config import Settings
-from palettecheck.generated import GenerateError
+from palettecheck.errors import GenerateError
+from palettecheck.generate.categorical import (
+    DEFAULT_BUDGET,
+    categorical,
+    categorical_problem,
+)
+from palettecheck.generate.ramp_path import ramp_metrics
+from palettecheck.generate.ramps import colormap, diverging, sequential
+from palettecheck.generate.search import (
+    Goal,
+    Problem,
+    Region,
+    measure,
+    movement,
+    search,
+)
 from palettecheck.judge import check_palette
-from palettecheck.ramp_geometry import ramp_metrics
-from palettecheck.ramps import colormap, diverging, sequential
-from palettecheck.search import Goal, Problem, Region, measure, movement, search
 
 # Invented base colours spread round the hue circle (no published palette).
 BASES = ["#1f6f8b", "#7d3cb5", "#c2571a", "#2f8a4f", "#b0305c", "#8a7a12"]
@@ -128,7 +139,7 @@ def random_draws(problem, count, seed):
     ok = []
     while len(ok) < count * problem.n:
         c = rng.integers(0, 256, size=(4000, 3)).astype(float)
-        s = problem.see(c)
+        s = problem.candidates(c)
         ok.extend(c[problem.region.allows(s.jab, s.contrast)])
     return np.array(ok[: count * problem.n]).reshape(count, problem.n, 3)
 
@@ -153,7 +164,7 @@ def test_categorical_eight_near_best_and_beats_random(eight):
 def test_categorical_respects_the_constrained_gamut(eight):
     gen = eight[0]
     problem = categorical_problem(8)
-    seen = problem.see(np.array([parse_color(h)[0] for h in gen.colors]))
+    seen = problem.candidates(np.array([parse_color(h)[0] for h in gen.colors]))
     assert problem.region.allows(seen.jab, seen.contrast).all()
     assert min(r["ratio"] for r in gen.check.contrast()) >= 3.0
 
@@ -231,22 +242,6 @@ def test_bad_requests_raise(call, words):
         call()
 
 
-def test_generate_module_still_offers_every_public_name():
-    """generate.py was split by concept; what it offered stays importable from it."""
-    import palettecheck.generate as G
-    from palettecheck import categorical as C
-    from palettecheck import ramps as R
-    from palettecheck.report import generated as out
-
-    names = [*G.__all__, "KINDS", "MAX_STEPS", "FAR_LIGHTNESS", "DEFAULT_BAND", "DEFAULT_MIN_CHROMA",
-             "DEFAULT_SEQUENTIAL", "DEFAULT_DIVERGING"]
-    assert all(hasattr(G, name) for name in names)
-    assert (G.sequential, G.diverging, G.colormap) == (R.sequential, R.diverging, R.colormap)
-    assert (G.categorical, G.DEFAULT_BUDGET, G.render_generated) == (C.categorical, C.DEFAULT_BUDGET,
-                                                                     out.render_generated)
-    assert G.generate_palette("sequential", 3).colors == sequential(3).colors
-
-
 # ---------------------------------------------------------------- search API (shared with repair)
 
 
@@ -257,7 +252,7 @@ def test_search_keeps_fixed_colours_and_the_region():
     sol = search(Problem(s, fixed, 3, region, Goal(softness=1.0)), seed=1, budget=4)
     assert np.array_equal(sol.rgb255[0], fixed[0])
     assert np.array_equal(sol.rgb255, np.round(sol.rgb255))  # exact #rrggbb
-    seen = Problem(s, fixed, 3, region).see(sol.rgb255[1:])
+    seen = Problem(s, fixed, 3, region).candidates(sol.rgb255[1:])
     assert region.allows(seen.jab, seen.contrast).all()
     value, low = measure(Problem(s, fixed, 3, region, Goal(softness=1.0)), sol.rgb255)
     assert low == pytest.approx(sol.min_delta_e)
@@ -273,7 +268,7 @@ def test_search_as_a_repair_moves_only_what_it_must():
     sol = search(problem, seed=0, budget=4, start=rgb[1:])
     assert sol.violation == 0 and sol.min_delta_e >= s.error_delta_e
     assert np.array_equal(sol.rgb255[0], rgb[0])
-    moved = movement(problem.origin_jab, problem.see(sol.rgb255[1:]).jab, 1.0)
+    moved = movement(problem.origin_jab, problem.candidates(sol.rgb255[1:]).jab, 1.0)
     assert moved[1] == 0 and moved[2] == 0  # the colours that were fine stay
     assert 0 < moved[0] < 3 * s.error_delta_e
     assert check_palette(Palette(tuple(Swatch(to_hex(c)) for c in sol.rgb255)), s).passed

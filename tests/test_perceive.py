@@ -10,7 +10,9 @@ from colorspacious.ciecam02 import CIECAM02Surround
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from palettecheck import perceive as P
+from palettecheck.config import SRGB_VIEWING, Viewing
+from palettecheck.perceive import ucs as P
+from palettecheck.perceive import wcag as W
 
 try:  # tests/ as a package or as a plain folder on sys.path
     from . import reference_values as ref
@@ -38,13 +40,13 @@ def _css(rgb):
 
 def test_average_surround_is_cie159():
     """V: CIE 159:2004 average surround, F 1.0, c 0.69, N_c 1.0."""
-    assert _space(P.SRGB_VIEWING).surround == CIECAM02Surround(*ref.AVERAGE_SURROUND)
+    assert _space(SRGB_VIEWING).surround == CIECAM02Surround(*ref.AVERAGE_SURROUND)
 
 
 @pytest.mark.parametrize("L_A", sorted(ref.CIE159_TABLE4))
 def test_ciecam02_cie159_worked_example(L_A):
     """V: CIE 159:2004 Table 4, both L_A rows, through our Viewing; tol 1e-3 (four decimals printed)."""
-    viewing = P.Viewing(XYZ100_w=ref.CIE159_XYZ100_W, Y_b=ref.CIE159_Y_B, L_A=L_A, surround="average")
+    viewing = Viewing(XYZ100_w=ref.CIE159_XYZ100_W, Y_b=ref.CIE159_Y_B, L_A=L_A, surround="average")
     got = _space(viewing).XYZ100_to_CIECAM02(ref.CIE159_XYZ100)
     for name, expected in ref.CIE159_TABLE4[L_A].items():  # H included: checked against CIE itself
         assert getattr(got, name) == pytest.approx(expected, abs=ref.TOL_CIECAM02), name
@@ -52,7 +54,7 @@ def test_ciecam02_cie159_worked_example(L_A):
 
 def test_ciecam02_fairchild_appmodex():
     """V: Fairchild (2013) AppModEx.xls row quoted by colorspacious and colour; tol 1e-3."""
-    viewing = P.Viewing(XYZ100_w=ref.FAIRCHILD_XYZ100_W, Y_b=ref.FAIRCHILD_Y_B, L_A=ref.FAIRCHILD_L_A)
+    viewing = Viewing(XYZ100_w=ref.FAIRCHILD_XYZ100_W, Y_b=ref.FAIRCHILD_Y_B, L_A=ref.FAIRCHILD_L_A)
     got = _space(viewing).XYZ100_to_CIECAM02(ref.FAIRCHILD_XYZ100)
     for name, expected in ref.FAIRCHILD_EXPECTED.items():
         assert getattr(got, name) == pytest.approx(expected, abs=ref.TOL_CIECAM02), name
@@ -62,7 +64,7 @@ def test_ciecam02_against_colour():
     """C: colour's XYZ_to_CIECAM02 on the CIE 159 conditions and random XYZ; H skipped."""
     import colour
 
-    viewing = P.Viewing(XYZ100_w=ref.CIE159_XYZ100_W, Y_b=ref.CIE159_Y_B, L_A=200.0)
+    viewing = Viewing(XYZ100_w=ref.CIE159_XYZ100_W, Y_b=ref.CIE159_Y_B, L_A=200.0)
     rng = np.random.default_rng(SEED)
     xyz = np.vstack([ref.CIE159_XYZ100, rng.uniform(1.0, 90.0, size=(50, 3))])
     ours = _space(viewing).XYZ100_to_CIECAM02(xyz)
@@ -79,8 +81,8 @@ def test_ciecam02_against_colour():
 @pytest.mark.parametrize(("jmh", "expected"), ref.UCS_FROM_JMH_SILVER)
 def test_ucs_from_jmh_silver(jmh, expected):
     """silver (colorspacious, colour agrees); also the Luo 2006 formulas written out (V)."""
-    jmh_space = {"name": "CIECAM02-subset", "axes": "JMh", "ciecam02_space": _space(P.SRGB_VIEWING)}
-    got = cspace_convert(jmh, jmh_space, P._ucs_space(P.SRGB_VIEWING))
+    jmh_space = {"name": "CIECAM02-subset", "axes": "JMh", "ciecam02_space": _space(SRGB_VIEWING)}
+    got = cspace_convert(jmh, jmh_space, P._ucs_space(SRGB_VIEWING))
     np.testing.assert_allclose(got, expected, atol=ref.TOL_UCS_SILVER)
     np.testing.assert_allclose(ref.luo2006_jab(*jmh), expected, atol=ref.TOL_UCS_SILVER)
 
@@ -101,16 +103,16 @@ def test_ucs_coefficients_are_luo2006_ucs():
 )
 def test_ucs_from_xyz_rows(white, expected, tol):
     """REFERENCES §2 XYZ rows through the colorspacious space built from our Viewing."""
-    viewing = P.Viewing(XYZ100_w=white)
+    viewing = Viewing(XYZ100_w=white)
     got = cspace_convert(np.array(ref.UCS_XYZ1) * 100.0, "XYZ100", P._ucs_space(viewing))
     np.testing.assert_allclose(got, expected, atol=tol)
 
 
 def test_default_viewing_is_srgb_with_colorspacious_d65():
     """C: the default viewing gives the colorspacious-white row, so D65 means (95.047, 100, 108.883)."""
-    got = cspace_convert(np.array(ref.UCS_XYZ1) * 100.0, "XYZ100", P._ucs_space(P.SRGB_VIEWING))
+    got = cspace_convert(np.array(ref.UCS_XYZ1) * 100.0, "XYZ100", P._ucs_space(SRGB_VIEWING))
     np.testing.assert_allclose(got, ref.UCS_XYZ_CS_EXPECTED, atol=ref.TOL_UCS_SILVER)
-    assert P.SRGB_VIEWING.L_A == pytest.approx(64 / np.pi * 0.2) and P.SRGB_VIEWING.Y_b == 20.0
+    assert SRGB_VIEWING.L_A == pytest.approx(64 / np.pi * 0.2) and SRGB_VIEWING.Y_b == 20.0
 
 
 def test_to_ucs_against_colour_random():
@@ -198,7 +200,7 @@ def _hex255(h):
 @pytest.mark.parametrize(("pair", "computed", "w3c"), ref.WCAG_CONTRAST, ids=lambda v: str(v))
 def test_wcag_contrast_table(pair, computed, w3c):
     """V: W3C text figures within 0.1; C: our four-decimal figures within 1e-4."""
-    ratio = float(P.contrast_ratio(_hex255(pair[0]), _hex255(pair[1])))
+    ratio = float(W.contrast_ratio(_hex255(pair[0]), _hex255(pair[1])))
     assert ratio == pytest.approx(computed, abs=ref.TOL_WCAG_COMPUTED)
     if w3c is not None:
         assert ratio == pytest.approx(w3c, abs=ref.TOL_WCAG_TEXT)
@@ -206,18 +208,18 @@ def test_wcag_contrast_table(pair, computed, w3c):
 
 def test_wcag_extremes_and_thresholds():
     """V: black on white is exactly 21; luminance of white 1, of black 0; no rounding (4.478 < 4.5)."""
-    assert float(P.contrast_ratio([0, 0, 0], [255, 255, 255])) == pytest.approx(21.0, abs=1e-12)
-    assert float(P.relative_luminance([255, 255, 255])) == pytest.approx(1.0, abs=1e-12)
-    assert float(P.relative_luminance([0, 0, 0])) == 0.0
-    assert float(P.contrast_ratio(_hex255("#777777"), [255, 255, 255])) < 4.5
-    assert float(P.contrast_ratio(_hex255("#767676"), [255, 255, 255])) >= 4.5
+    assert float(W.contrast_ratio([0, 0, 0], [255, 255, 255])) == pytest.approx(21.0, abs=1e-12)
+    assert float(W.relative_luminance([255, 255, 255])) == pytest.approx(1.0, abs=1e-12)
+    assert float(W.relative_luminance([0, 0, 0])) == 0.0
+    assert float(W.contrast_ratio(_hex255("#777777"), [255, 255, 255])) < 4.5
+    assert float(W.contrast_ratio(_hex255("#767676"), [255, 255, 255])) >= 4.5
 
 
 def test_relative_luminance_is_wcag_formula():
     """V: L = 0.2126 R + 0.7152 G + 0.0722 B of decoded channels."""
     rgb = _random_srgb255(50)
     lin = P.srgb1_to_linear(rgb / 255.0)
-    np.testing.assert_allclose(P.relative_luminance(rgb), lin @ [0.2126, 0.7152, 0.0722], rtol=1e-14)
+    np.testing.assert_allclose(W.relative_luminance(rgb), lin @ [0.2126, 0.7152, 0.0722], rtol=1e-14)
 
 
 def test_contrast_against_coloraide_random():
@@ -226,7 +228,7 @@ def test_contrast_against_coloraide_random():
     from coloraide import Color
 
     a, b = _random_srgb255(300, SEED + 3), _random_srgb255(300, SEED + 4)
-    ours = P.contrast_ratio(a, b)
+    ours = W.contrast_ratio(a, b)
     theirs = np.array([Color(_css(x)).contrast(_css(y), method="wcag21") for x, y in zip(a, b)])
     np.testing.assert_allclose(ours, theirs, rtol=0, atol=ref.TOL_CONTRAST_VS_COLORAIDE)
 
@@ -251,9 +253,9 @@ def test_delta_e_symmetric_and_zero_on_identity(a, b):
 @FEW
 @given(srgb_int, srgb_int)
 def test_contrast_ratio_range_and_symmetry(a, b):
-    r = float(P.contrast_ratio(a, b))
+    r = float(W.contrast_ratio(a, b))
     assert 1.0 <= r <= 21.0 + 1e-12
-    assert r == float(P.contrast_ratio(b, a))
+    assert r == float(W.contrast_ratio(b, a))
 
 
 @FEW
@@ -280,8 +282,8 @@ def test_in_gamut():
 
 @pytest.mark.parametrize(
     "fn",
-    [P.to_ucs, P.from_ucs, P.relative_luminance, lambda c: P.srgb1_to_linear(np.asarray(c) / 255.0),
-     lambda c: P.linear_to_srgb1(np.asarray(c) / 255.0), lambda c: P.contrast_ratio(c, [10, 200, 30]),
+    [P.to_ucs, P.from_ucs, W.relative_luminance, lambda c: P.srgb1_to_linear(np.asarray(c) / 255.0),
+     lambda c: P.linear_to_srgb1(np.asarray(c) / 255.0), lambda c: W.contrast_ratio(c, [10, 200, 30]),
      lambda c: P.delta_e(c, [10, 20, 30]), P.in_gamut],
     ids=["to_ucs", "from_ucs", "relative_luminance", "srgb1_to_linear", "linear_to_srgb1", "contrast_ratio",
          "delta_e", "in_gamut"],

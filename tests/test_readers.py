@@ -3,10 +3,9 @@
 import json
 
 import pytest
-
-from palettecheck.readers import ReadError, read_source, read_sources
-
 from conftest import PALETTES
+
+from palettecheck.read import ReadError, read_source, read_sources
 
 
 def test_text_with_names_comments_and_locks(tmp_path):

@@ -3,20 +3,17 @@ rules, and every kind of bad input refused with one line naming the file."""
 
 from __future__ import annotations
 
-import struct
 import time
-import zlib
 
 import numpy as np
 import pytest
+from helpers import delta, png_header
 from PIL import Image
 
 import palettecheck
-from palettecheck.extract import ColorCounts, extract
-from palettecheck.readers import ReadError
-from palettecheck.scale import ramp_order
-
-from test_scan_accuracy import delta
+from palettecheck.errors import ReadError
+from palettecheck.read.continuous import ramp_order
+from palettecheck.read.extract import ColorCounts, extract
 
 BARS = ["#1d5a8c", "#c2571a", "#2f8a4c"]
 GREY = "#333333"
@@ -122,16 +119,6 @@ def test_lab_profile_is_applied_to_the_distinct_colours(tmp_path):
 
 
 # --- bad input ---------------------------------------------------------------
-
-def png_header(width: int, height: int) -> bytes:
-    """A PNG whose header announces ``width`` x ``height`` (its data is a stub)."""
-    def chunk(kind: bytes, data: bytes) -> bytes:
-        return struct.pack(">I", len(data)) + kind + data + struct.pack(">I", zlib.crc32(kind + data))
-
-    ihdr = struct.pack(">IIBBBBB", width, height, 8, 2, 0, 0, 0)
-    return (b"\x89PNG\r\n\x1a\n" + chunk(b"IHDR", ihdr) + chunk(b"IDAT", zlib.compress(b"\x00" * 64))
-            + chunk(b"IEND", b""))
-
 
 @pytest.mark.parametrize("name, data, words", [
     ("empty.png", b"", "empty file"),
@@ -274,12 +261,3 @@ def test_ramp_order_follows_lightness_from_the_page():
     ramp = ["#f7fbff", "#c6dbef", "#6baed6", "#2171b5", "#08306b"]
     shuffled = [ramp[i] for i in (3, 0, 4, 2, 1)]
     assert [shuffled[i] for i in ramp_order(shuffled, "#ffffff")] == ramp
-
-
-def test_extract_module_still_offers_every_public_name():
-    """The scale step moved to palettecheck.scale; extract's public names stay importable."""
-    import palettecheck.extract as E
-    import palettecheck.scale as S
-
-    assert all(hasattr(E, name) for name in E.__all__)
-    assert E.ramp_order is S.ramp_order

@@ -8,17 +8,15 @@ import json
 
 import numpy as np
 import pytest
+from conftest import PALETTES
+from helpers import naive_movement
 
-from palettecheck.categorical import categorical
-from palettecheck.checks import seen
 from palettecheck.color import Palette, Swatch, make_palette, to_hex
 from palettecheck.config import Settings
+from palettecheck.generate.categorical import categorical
 from palettecheck.judge import check_palette
-from palettecheck.perceive import contrast_ratio, to_ucs
-from palettecheck.readers import read_source
+from palettecheck.read import read_source
 from palettecheck.repair import RepairError, repair
-
-from conftest import PALETTES
 
 CASES = 200
 VISIONS = Settings().visions
@@ -32,29 +30,6 @@ def random_cases(seed=2026):
         cols = rng.integers(0, 256, (n, 3))
         locked = set(rng.choice(n, k, replace=False).tolist())
         yield Palette(tuple(Swatch(to_hex(c), None, i in locked) for i, c in enumerate(cols)))
-
-
-def naive_movement(palette: Palette, settings: Settings) -> float:
-    """Baseline: replace each offending unlocked colour, one after another, by the
-    in-gamut colour (with the contrast the mark needs) farthest from all the others
-    under every vision; the total ΔE' moved."""
-    v = np.round(np.linspace(0, 255, 18))
-    grid = np.stack(np.meshgrid(v, v, v, indexing="ij"), -1).reshape(-1, 3)
-    grid = grid[contrast_ratio(grid, [255, 255, 255]) >= settings.contrast_needed]
-    g = seen(grid, settings, VISIONS)
-    r = check_palette(palette, settings)
-    offending = sorted({i for f in r.findings if f.severity == "error" for i in f.indices} - set(
-        np.flatnonzero(palette.locked).tolist()))
-    rgb = palette.rgb255.copy()
-    total = 0.0
-    for i in offending:
-        others = np.delete(rgb, i, axis=0)
-        o = seen(others, settings, VISIONS)
-        d = np.linalg.norm(g[:, :, None] - o[:, None], axis=-1).min(axis=(0, 2))
-        new = grid[int(np.argmax(d))]
-        total += float(np.linalg.norm(to_ucs(new) - to_ucs(rgb[i])))
-        rgb[i] = new
-    return total
 
 
 @pytest.fixture(scope="module")

@@ -10,15 +10,15 @@ import re
 
 import numpy as np
 import pytest
-
 from conftest import PALETTES
+
 from palettecheck import Settings, check_palette, read_source
 from palettecheck.color import make_palette
 from palettecheck.perceive import contrast_ratio
+from palettecheck.perceive.vision import VISIONS, simulate
 from palettecheck.report import CAUTION, FORMATS, render
-from palettecheck.report.html import text_colour
+from palettecheck.report.html import text_color
 from palettecheck.report.markdown import md_escape
-from palettecheck.vision import VISIONS, simulate
 
 BRAND = str(PALETTES / "kestrel-brand.json")
 PASSING = str(PALETTES / "dashboard-five.txt")
@@ -141,7 +141,7 @@ def test_html_strips_follow_the_settings():
 
 
 def test_html_text_on_colour_is_readable(brand):
-    assert text_colour("#ffffff") == "#000000" and text_colour("#000000") == "#ffffff"
+    assert text_color("#ffffff") == "#000000" and text_color("#000000") == "#ffffff"
     page = render(brand, "html")
     pairs = re.findall(r'style="background:(#[0-9a-f]{6});color:(#[0-9a-f]{6})"', page)
     assert len(pairs) > 3 * len(brand.palette)

@@ -11,10 +11,8 @@ import sys
 
 import numpy as np
 import pytest
+from helpers import draw, heat_map, png_header, save
 from matplotlib.figure import Figure
-
-from test_readers_image import png_header
-from test_scan_accuracy import draw, heat_map, save
 
 IMAGE_KEYS = {"path", "background", "scale", "colors", "neutrals", "score", "passed", "palette",
               "backgrounds", "visions", "pairs", "contrast", "findings", "suggestions"}

@@ -4,7 +4,7 @@ import numpy as np
 import pytest
 from PIL import Image
 
-from palettecheck.vision import VISIONS, simulate
+from palettecheck.perceive.vision import VISIONS, simulate
 
 
 def pixels(path):

@@ -1,4 +1,4 @@
-"""palettecheck.vision against the published CVD matrices and other colour libraries.
+"""palettecheck.perceive.vision against the published CVD matrices and other colour libraries.
 
 Letters V/C/M follow /work/shared/REFERENCES.md (see tests/reference_values.py).
 Comparisons are made in linear sRGB 0-1, where the models are defined.
@@ -11,8 +11,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from palettecheck import vision as V
-from palettecheck.perceive import relative_luminance, srgb1_to_linear
+from palettecheck.perceive import vision as V
+from palettecheck.perceive.ucs import srgb1_to_linear
+from palettecheck.perceive.wcag import relative_luminance
 
 try:  # tests/ as a package or as a plain folder on sys.path
     from . import reference_values as ref
@@ -102,7 +103,7 @@ def test_machado_rows_sum_to_one(vision):
 # --- properties, both methods -----------------------------------------------------------
 
 
-@pytest.mark.parametrize("method", V.CVD_METHODS)
+@pytest.mark.parametrize("method", V.CVD_MODELS)
 @pytest.mark.parametrize("vision", CVD)
 @pytest.mark.parametrize("severity", [0.0, 0.37, 1.0])
 def test_greys_stay_grey(method, vision, severity):
@@ -110,7 +111,7 @@ def test_greys_stay_grey(method, vision, severity):
     np.testing.assert_allclose(_linear(V.simulate(grey, vision, severity, method=method)), _linear(grey), atol=3e-6)
 
 
-@pytest.mark.parametrize("method", V.CVD_METHODS)
+@pytest.mark.parametrize("method", V.CVD_MODELS)
 @pytest.mark.parametrize("vision", CVD)
 def test_severity_zero_is_normal(method, vision):
     rgb = _colours(100)
@@ -126,7 +127,7 @@ channel = st.integers(0, 255)
     st.tuples(channel, channel, channel),
     st.sampled_from(V.VISIONS),
     st.floats(0.0, 1.0, allow_nan=False),
-    st.sampled_from(V.CVD_METHODS),
+    st.sampled_from(V.CVD_MODELS),
 )
 def test_output_in_gamut(rgb, vision, severity, method):
     out = V.simulate(rgb, vision, severity, method=method)
@@ -159,7 +160,7 @@ def test_default_method_is_machado():
         np.testing.assert_array_equal(V.simulate(rgb, vision, 0.4), V.simulate(rgb, vision, 0.4, "machado"))
 
 
-@pytest.mark.parametrize("method", V.CVD_METHODS)
+@pytest.mark.parametrize("method", V.CVD_MODELS)
 @pytest.mark.parametrize("vision", V.VISIONS)
 def test_n_dimensional(method, vision):
     """A scalar triple, tiled to (6, 3), reshaped to (2, 3, 3), gives the same values."""

@@ -1,68 +1,49 @@
-"""Reports: one module per output format, plus safe writing."""
+"""Report: results as text, JSON, Markdown and HTML, figures, and the one atomic writer.
+
+One module per output format; ``facts`` holds what every format says (and the
+caution that joins every report), ``write`` the one way a file is written.
+"""
 
 from __future__ import annotations
 
-import os
-import tempfile
-from pathlib import Path
+from ..terms import REPORT_EXTENSIONS as EXTENSIONS
+from ..terms import REPORT_FORMATS as FORMATS
+from .facts import CAUTION
+from .fixes import render_fix, render_fix_json
+from .generated import render_generated
+from .html import render_html, render_scan_html
+from .jsonout import render_json
+from .markdown import render_markdown, render_scan_markdown
+from .scan import render_scan_json, render_scan_text
+from .text import render_text
+from .write import output_path, refuse_overwrite, write_atomic
 
-__all__ = ["CAUTION", "FORMATS", "EXTENSIONS", "render", "write_atomic", "OutputError"]
-
-CAUTION = ("Passing these checks does not by itself certify compliance with any "
-           "accessibility law or standard; follow the standard that applies to you "
-           "(for example WCAG 2.2) and ask an accessibility specialist.")
-
-#: Report formats of ``check`` and ``scan``.
-FORMATS = ("text", "json", "markdown", "html")
-#: File name extension of each format, for reports written into a folder.
-EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html"}
-
-
-class OutputError(OSError):
-    """An output that cannot be written; the message names the path."""
+__all__ = ["CAUTION", "FORMATS", "EXTENSIONS", "render", "render_scan", "render_repair", "render_generated",
+           "write_atomic", "output_path", "refuse_overwrite"]
 
 
 def render(result, fmt: str, color: bool = False) -> str:
     """A check's report in one of :data:`FORMATS`; ``color`` is for the terminal (text)."""
     if fmt == "json":
-        from .jsonout import render_json
-
         return render_json(result)
     if fmt == "markdown":
-        from .markdown import render_markdown
-
         return render_markdown(result)
     if fmt == "html":
-        from .html import render_html
-
         return render_html(result)
-    from .text import render_text
-
     return render_text(result, color=color)
 
 
-def write_atomic(path: Path, text: str, inputs=()) -> None:
-    """Write ``text`` to ``path`` through a temporary file and a rename, so a reader
-    never sees half a report. Refuses to write over any of ``inputs``."""
-    path = Path(path)
-    for src in inputs:
-        try:
-            if Path(src).exists() and path.exists() and os.path.samefile(src, path):
-                raise OutputError(f"{path}: is an input; refusing to write over it")
-        except OSError as e:
-            if isinstance(e, OutputError):
-                raise
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        raise OutputError(f"{path}: folder {folder} does not exist")
-    try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=folder)
-    except OSError as e:
-        raise OutputError(f"{path}: cannot write ({e.strerror or e})") from None
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as f:
-            f.write(text)
-        os.replace(tmp, path)
-    except OSError as e:
-        Path(tmp).unlink(missing_ok=True)
-        raise OutputError(f"{path}: cannot write ({e.strerror or e})") from None
+def render_scan(report, fmt: str, color: bool = False) -> str:
+    """A scan's report in one of :data:`FORMATS`."""
+    if fmt == "json":
+        return render_scan_json(report)
+    if fmt == "markdown":
+        return render_scan_markdown(report)
+    if fmt == "html":
+        return render_scan_html(report)
+    return render_scan_text(report, color=color)
+
+
+def render_repair(repair, fmt: str, color: bool = False) -> str:
+    """A repair's account: ``json`` (everything, one object) or text (the moves)."""
+    return render_fix_json(repair) if fmt == "json" else render_fix(repair, color=color)

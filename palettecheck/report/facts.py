@@ -1,6 +1,6 @@
-"""What every report says about each colour: its contrast against each background
-and its closest neighbour under the visions checked. Text, Markdown and HTML print
-the same facts from here."""
+"""What every report says: the caution, each colour's contrast against each
+background and closest neighbour under the visions checked, and each chart's
+colours and main problem. Text, Markdown and HTML print the same facts from here."""
 
 from __future__ import annotations
 
@@ -9,7 +9,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["ColourFacts", "colour_facts", "ratio_text"]
+from ..terms import ERROR, WARNING
+
+__all__ = ["CAUTION", "ColorFacts", "color_facts", "ratio_text", "main_problem", "colors_summary"]
+
+#: Joins every report and every JSON output: these checks are not a certificate.
+CAUTION = ("Passing these checks does not by itself certify compliance with any "
+           "accessibility law or standard; follow the standard that applies to you "
+           "(for example WCAG 2.2) and ask an accessibility specialist.")
 
 
 def ratio_text(ratio: float) -> str:
@@ -19,7 +26,7 @@ def ratio_text(ratio: float) -> str:
 
 
 @dataclass(frozen=True)
-class ColourFacts:
+class ColorFacts:
     """One palette colour as the reports describe it."""
 
     index: int  #: 0-based
@@ -31,7 +38,7 @@ class ColourFacts:
     too_close: bool  #: the closest neighbour is below the error threshold
 
 
-def colour_facts(result) -> list[ColourFacts]:
+def color_facts(result) -> list[ColorFacts]:
     """Contrast per background and closest neighbour (over every vision checked) of
     each colour; ramps compare a colour with its neighbours in order only."""
     p, s = result.perceived, result.settings
@@ -50,6 +57,29 @@ def colour_facts(result) -> list[ColourFacts]:
             v, k = np.unravel_index(np.argmin(vals), vals.shape)
             closest = (float(vals[v, k]), others[k], s.visions[v])
         ratios = tuple((float(contrast[i, b]["ratio"]), bool(contrast[i, b]["ok"])) for b in s.backgrounds)
-        out.append(ColourFacts(i, w.hex, w.name or "", w.locked, ratios, closest,
+        out.append(ColorFacts(i, w.hex, w.name or "", w.locked, ratios, closest,
                                closest is not None and closest[0] < s.error_delta_e))
     return out
+
+
+_RANK = {ERROR: 0, WARNING: 1}
+
+
+def main_problem(check) -> str:
+    """The first error, else the first warning, of a chart's check; '-' when none."""
+    found = [f for f in check.result.findings if f.severity in _RANK]
+    if not found and not check.reading.colors:
+        return "nothing to check: no data colours found (only the background and greys)"
+    if not found:
+        return "-"
+    f = min(found, key=lambda f: _RANK[f.severity])
+    return f"{f.severity}: {f.message}"
+
+
+def colors_summary(check) -> str:
+    """A chart's colours in a few words: '5 +2 grey', or 'sequential scale +1 grey'."""
+    r = check.reading
+    greys = f" +{len(r.neutrals)} grey" if r.neutrals else ""
+    if r.scale == "continuous":
+        return f"{r.ramp_kind} scale{greys}"
+    return f"{len(r.colors)}{greys}"

@@ -1,7 +1,7 @@
 """Figures: a chart image as each simulated vision would see it.
 
 For every vision palettecheck knows, the image's distinct colours are simulated
-once (:func:`palettecheck.vision.simulate`) and mapped back to the pixels, so a 4K
+once (:func:`palettecheck.perceive.vision.simulate`) and mapped back to the pixels, so a 4K
 chart costs one sort of its pixels, not a simulation per pixel. The files written
 are ``<stem>-<vision>.png`` for each vision and ``<stem>-sheet.png``, all views side
 by side with their names; each is written through a temporary file and a rename.
@@ -10,24 +10,20 @@ by side with their names; each is written through a temporary file and a rename.
 from __future__ import annotations
 
 import os
-import tempfile
 from pathlib import Path
 
 import numpy as np
 
-from ..vision import VISIONS, simulate
+from ..errors import OutputError, ReadError
+from ..perceive.vision import simulate
+from ..read.raster import apply_icc, open_image
+from ..terms import VISION_TITLES, VISIONS
+from .write import write_atomic_with
 
 __all__ = ["simulate_image", "simulated_views"]
 
-_TITLE = {"normal": "as drawn (normal vision)", "protanopia": "protanopia (simulated)",
-          "deuteranopia": "deuteranopia (simulated)", "tritanopia": "tritanopia (simulated)",
-          "achromatopsia": "grey: no colour vision, or a grey print"}
-
-
 def _decode(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
     """sRGB ``(h, w, 3)`` uint8 pixels and alpha (or None) of a raster image."""
-    from ..readers.raster import _apply_icc, open_image
-
     notes: list = []
     with open_image(path) as im:
         has_alpha = im.mode in ("RGBA", "LA", "PA", "La", "RGBa") or "transparency" in im.info
@@ -36,12 +32,10 @@ def _decode(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
             rgba = im.convert("RGBA") if im.mode != "CMYK" else im
             rgb = rgba.convert("RGB")
             if icc:
-                rgb = _apply_icc(rgb if im.mode != "CMYK" else im, icc, notes) or rgb
+                rgb = apply_icc(rgb if im.mode != "CMYK" else im, icc, notes) or rgb
             pixels = np.asarray(rgb, dtype=np.uint8)
             alpha = np.asarray(rgba.getchannel("A")) if has_alpha and rgba.mode == "RGBA" else None
         except (OSError, ValueError, SyntaxError) as e:
-            from ..readers import ReadError
-
             raise ReadError(f"{path}: damaged image ({e})") from None
     return pixels, alpha, notes
 
@@ -60,24 +54,13 @@ def simulated_views(pixels: np.ndarray, severity: float = 1.0, method: str = "ma
     return out
 
 
-def _atomically(path: Path, save) -> None:
-    """Call ``save(temporary_path)``, then rename the result to ``path``."""
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".png", dir=path.parent)
-    os.close(fd)
-    try:
-        save(tmp)
-        os.replace(tmp, path)
-    finally:
-        Path(tmp).unlink(missing_ok=True)
-
-
 def _save_png(array: np.ndarray, alpha, path: Path) -> None:
     from PIL import Image
 
     im = Image.fromarray(array, "RGB")
     if alpha is not None:
         im.putalpha(Image.fromarray(alpha, "L"))
-    _atomically(path, lambda tmp: im.save(tmp, format="PNG"))
+    write_atomic_with(path, lambda tmp: im.save(tmp, format="PNG"), ".png")
 
 
 def _sheet(views: dict, path: Path, title: str) -> None:
@@ -95,24 +78,20 @@ def _sheet(views: dict, path: Path, title: str) -> None:
     for k, (vision, arr) in enumerate(views.items()):
         ax = fig.add_subplot(rows, cols, k + 1)
         ax.imshow(arr, interpolation="lanczos")
-        ax.set_title(_TITLE[vision], fontsize=9)
+        ax.set_title(VISION_TITLES[vision], fontsize=9)
         ax.set_axis_off()
-    _atomically(path, lambda tmp: fig.savefig(tmp, format="png"))
+    write_atomic_with(path, lambda tmp: fig.savefig(tmp, format="png"), ".png")
 
 
 def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado") -> list[Path]:
     """Write ``<stem>-<vision>.png`` per vision and ``<stem>-sheet.png`` into
     ``out_dir``; returns the paths written. Never writes over ``path``.
 
-    :raises palettecheck.readers.ReadError: unreadable image.
-    :raises palettecheck.report.OutputError: the folder cannot take the files.
+    :raises palettecheck.errors.ReadError: unreadable image.
+    :raises palettecheck.errors.OutputError: the folder cannot take the files.
     """
-    from . import OutputError
-
     path, out_dir = Path(path), Path(out_dir)
     if path.suffix.lower() == ".svg":
-        from ..readers import ReadError
-
         raise ReadError(f"{path}: simulate reads raster images; export the SVG as PNG first")
     pixels, alpha, _ = _decode(path)
     if not out_dir.is_dir():
@@ -128,6 +107,8 @@ def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado"
             _save_png(arr, alpha, targets[vision])
         sev = "" if severity == 1 else f", severity {severity:g}"
         _sheet(views, targets["sheet"], f"{path.name}: simulated with {method.capitalize()}{sev}")
+    except OutputError:
+        raise
     except OSError as e:
         raise OutputError(f"{out_dir}: cannot write ({e.strerror or e})") from None
     return list(targets.values())

@@ -1,8 +1,19 @@
-"""Plain-text account of a repair: what moved, how far, what it cleared."""
+"""A repair as text (what moved, how far, what it cleared) or as JSON."""
 
 from __future__ import annotations
 
+import json
+
+from ..terms import ERROR
+from .facts import CAUTION
 from .text import swatch
+
+__all__ = ["render_fix", "render_fix_json"]
+
+
+def render_fix_json(repair) -> str:
+    """Everything about a repair as one JSON object (DESIGN.md's ``fix`` contract)."""
+    return json.dumps({**repair.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
 
 
 def render_fix(repair, color: bool = False) -> str:
@@ -23,7 +34,7 @@ def render_fix(repair, color: bool = False) -> str:
     if repair.advice:
         lines.append("when colour alone cannot carry the categories:")
         lines += [f"  - {x}" for x in repair.advice]
-    remaining = [f for f in a.findings if f.severity == "error"]
+    remaining = [f for f in a.findings if f.severity == ERROR]
     if remaining and not repair.explanation:
         lines += [f"  still: {f.message}" for f in remaining]
     return "\n".join(lines) + "\n\n"

@@ -7,14 +7,14 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from . import render
+from ..terms import GENERATE_FORMATS as FORMATS
+from .facts import CAUTION
+from .text import render_text
 
 if TYPE_CHECKING:
-    from ..generated import Generated
+    from ..generate.result import Generated
 
 __all__ = ["FORMATS", "render_generated"]
-
-FORMATS = ("text", "json", "hex", "css", "matplotlib")
 
 
 def _summary(gen: Generated) -> str:
@@ -33,7 +33,7 @@ def render_generated(gen: Generated, fmt: str, color: bool = False) -> str:
     summary = _summary(gen)
     why = [f"  {line}" for line in gen.explanation]
     if fmt == "json":
-        return json.dumps(gen.to_dict(), indent=2, ensure_ascii=False) + "\n"
+        return json.dumps({**gen.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
     if fmt == "hex":
         lines = [f"# {gen.kind} palette from palettecheck: {summary}"]
         lines += [f"# {line}" for line in gen.explanation]
@@ -62,4 +62,4 @@ def render_generated(gen: Generated, fmt: str, color: bool = False) -> str:
     head += [f"note: {x}" for x in gen.notes]
     if gen.explanation:
         head += ["cannot meet every constraint:"] + why
-    return "\n".join(head) + "\n\n" + render(gen.check, "text", color=color)
+    return "\n".join(head) + "\n\n" + render_text(gen.check, color=color)

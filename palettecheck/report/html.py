@@ -18,16 +18,22 @@ from html import escape
 
 import numpy as np
 
-from . import CAUTION
-from .facts import colour_facts, ratio_text
-from .markdown import (SEVERITY_TITLES, closest_text, scan_rows, scan_tally,
-                       settings_rows, suggestion_texts, verdict)
+from ..color import parse_color
+from ..perceive.vision import simulate
+from ..perceive.wcag import contrast_ratio
+from ..terms import SEVERITY_TITLES, VERSION, VISION_TITLES, VISIONS
+from .facts import CAUTION, color_facts, ratio_text
+from .markdown import (
+    closest_text,
+    scan_rows,
+    scan_tally,
+    settings_rows,
+    suggestion_texts,
+    verdict,
+)
 
-__all__ = ["render_html", "render_scan_html", "text_colour"]
+__all__ = ["render_html", "render_scan_html", "text_color"]
 
-_VISION_TITLES = {"normal": "normal vision (as given)", "protanopia": "protanopia",
-                  "deuteranopia": "deuteranopia", "tritanopia": "tritanopia",
-                  "achromatopsia": "grey: a grey print, or no colour vision"}
 _HEX = re.compile(r"#[0-9a-fA-F]{6}")
 
 _CSS = """
@@ -120,10 +126,8 @@ def _css_hex(hex_: str) -> str:
     return hex_.lower() if _HEX.fullmatch(hex_ or "") else "transparent"
 
 
-def text_colour(hex_: str) -> str:
+def text_color(hex_: str) -> str:
     """Black or white, whichever has the higher WCAG contrast on ``hex_``."""
-    from ..perceive import contrast_ratio
-
     rgb = np.array([int(hex_[i:i + 2], 16) for i in (1, 3, 5)], dtype=float)
     black = contrast_ratio(rgb, np.zeros(3))
     white = contrast_ratio(rgb, np.full(3, 255.0))
@@ -132,7 +136,7 @@ def text_colour(hex_: str) -> str:
 
 def _chip(hex_: str, label: str, wide: bool = False, title: str = "") -> str:
     colour = _css_hex(hex_)
-    ink = text_colour(colour) if colour != "transparent" else "inherit"
+    ink = text_color(colour) if colour != "transparent" else "inherit"
     tip = f' title="{_e(title)}"' if title else ""
     return (f'<span class="chip{" wide" if wide else ""}" style="background:{colour};color:{ink}"{tip}>'
             f"{_e(label)}</span>")
@@ -146,9 +150,6 @@ def _hexes(rgb255) -> list[str]:
 def _views(result) -> list[str]:
     """The palette once per vision, each strip on its first background as that
     vision sees it."""
-    from ..color import parse_color
-    from ..vision import VISIONS, simulate
-
     s, pal = result.settings, result.palette
     rgb = pal.rgb255
     bg = np.array([parse_color(s.backgrounds[0])[0]], dtype=float)
@@ -157,10 +158,10 @@ def _views(result) -> list[str]:
         seen = _hexes(simulate(rgb, vision, s.severity, s.cvd_model)) if len(pal) else []
         page = _hexes(simulate(bg, vision, s.severity, s.cvd_model))[0]
         cells = "".join(
-            f'<span class="cell" style="background:{_css_hex(h)};color:{text_colour(h)}" '
+            f'<span class="cell" style="background:{_css_hex(h)};color:{text_color(h)}" '
             f'title="{_e(f"#{i + 1} {w.label} seen as {h}")}">{i + 1}</span>'
             for i, (w, h) in enumerate(zip(pal, seen)))
-        out.append(f'<div class="view-name">{_e(_VISION_TITLES[vision])}</div>'
+        out.append(f'<div class="view-name">{_e(VISION_TITLES[vision])}</div>'
                    f'<div class="strip" style="background:{_css_hex(page)}">{cells}</div>')
     out.append("</div>")
     return out
@@ -192,7 +193,7 @@ def check_body(result, level: int = 2) -> list[str]:
         out += ['<div class="scroll"><table class="colours">',
                 f"<tr><th>#</th><th>swatch</th><th>hex</th>{'<th>name</th>' if named else ''}{head}"
                 f"<th>closest neighbour: ΔE' (vision)</th></tr>"]
-        for f in colour_facts(result):
+        for f in color_facts(result):
             name = _e(f.name) + ('<span class="tag info">locked</span>' if f.locked else "")
             name = f"<td>{name}</td>" if named else ""
             ratios = "".join(f'<td class="num">{ratio_text(r)}'
@@ -254,15 +255,13 @@ def check_body(result, level: int = 2) -> list[str]:
 
 
 def _page(title: str, body: list[str]) -> str:
-    from .. import __version__
-
     return "\n".join([
         "<!DOCTYPE html>", '<html lang="en">', "<head>", '<meta charset="utf-8">',
         '<meta name="viewport" content="width=device-width, initial-scale=1">',
         '<meta name="color-scheme" content="light dark">',
         f"<title>{_e(title)}</title>", f"<style>{_CSS}</style>", "</head>", "<body>", "<main>",
         *body,
-        f"<footer>Written by palettecheck {_e(__version__)}.</footer>",
+        f"<footer>Written by palettecheck {_e(VERSION)}.</footer>",
         "</main>", "</body>", "</html>", ""])
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from . import CAUTION
+from .facts import CAUTION
 
 
 def result_dict(result) -> dict:

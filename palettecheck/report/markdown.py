@@ -10,13 +10,17 @@ from __future__ import annotations
 
 import re
 
-from . import CAUTION
-from .facts import ColourFacts, colour_facts, ratio_text
+from ..terms import SEVERITY_TITLES
+from .facts import (
+    CAUTION,
+    ColorFacts,
+    color_facts,
+    colors_summary,
+    main_problem,
+    ratio_text,
+)
 
-__all__ = ["render_markdown", "render_scan_markdown", "md_escape", "SEVERITY_TITLES"]
-
-#: Finding severities in report order, with their section titles.
-SEVERITY_TITLES = {"error": "Errors", "warning": "Warnings", "info": "Notes"}
+__all__ = ["render_markdown", "render_scan_markdown", "md_escape"]
 
 _SPECIAL = re.compile(r"([\\`*_\[\]<>|~&])")
 #: what makes a heading, list item, quote or rule of a line's start
@@ -69,7 +73,7 @@ def settings_rows(result) -> list[tuple[str, str]]:
     return rows
 
 
-def closest_text(f: ColourFacts) -> str:
+def closest_text(f: ColorFacts) -> str:
     if f.closest is None:
         return "-"
     value, j, vision = f.closest
@@ -98,7 +102,7 @@ def check_body(result, level: int = 2) -> list[str]:
     head = ["#", "colour", *(["name"] if named else []), *(f"contrast on `{b}`" for b in s.backgrounds),
             "closest neighbour: ΔE' (vision)"]
     rows = []
-    for f in colour_facts(result):
+    for f in color_facts(result):
         name = [md_escape(f.name) + (" (locked)" if f.locked else "")] if named else []
         ratios = [ratio_text(r) + ("" if ok else " **too low**") for r, ok in f.contrast]
         near = closest_text(f) + (" **too close**" if f.too_close else "")
@@ -146,9 +150,7 @@ def render_markdown(result) -> str:
 def scan_rows(report) -> list[tuple[str, str, str, str, str, str]]:
     """(chart, background, colours, score, result, main problem) per chart, then per
     unreadable file; unescaped."""
-    from .summary import _colours, main_problem
-
-    rows = [(c.path, c.reading.background, _colours(c), str(c.result.score.value),
+    rows = [(c.path, c.reading.background, colors_summary(c), str(c.result.score.value),
              "passes" if c.passed else "fails", main_problem(c)) for c in report.images]
     for path, message in report.errors:
         problem = message[len(path) + 2:] if message.startswith(f"{path}: ") else message

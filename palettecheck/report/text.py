@@ -2,8 +2,7 @@
 
 from __future__ import annotations
 
-from . import CAUTION
-from .facts import colour_facts, ratio_text
+from .facts import CAUTION, color_facts, ratio_text
 
 _MARK = {"error": "x", "warning": "!", "info": "-"}
 
@@ -22,7 +21,7 @@ def _paint(text: str, severity: str, color: bool) -> str:
     return f"\x1b[{code}m{text}\x1b[0m"
 
 
-def colour_rows(result, color: bool) -> list[str]:
+def color_rows(result, color: bool) -> list[str]:
     """One row per colour: swatch, hex, name, contrast per background, closest
     neighbour and under which vision."""
     s = result.settings
@@ -30,7 +29,7 @@ def colour_rows(result, color: bool) -> list[str]:
     width = max([len(x) for x in names] + [4])
     bgs = "  ".join(f"vs {b:<7}" for b in s.backgrounds)
     lines = [f"  {'#':>2}  {'':{5 if color else 0}}{'colour':8} {'name':{width}}  {bgs}  closest (ΔE', vision)"]
-    for f in colour_facts(result):
+    for f in color_facts(result):
         ratios = "  ".join(f"{ratio_text(r):>7}  " for r, _ in f.contrast)
         near = "-" if f.closest is None else f"{f.closest[0]:5.1f} to #{f.closest[1] + 1} ({f.closest[2]})"
         lock = " (locked)" if f.locked else ""
@@ -54,7 +53,7 @@ def render_text(result, color: bool = False) -> str:
         + (f" at severity {s.severity:g}" if s.severity != 1 else ""),
         "",
     ]
-    body = colour_rows(result, color)
+    body = color_rows(result, color)
     findings = [""]
     for f in result.findings:
         findings.append(_paint(f"  {_MARK[f.severity]} {f.severity:7} {f.check:15} ", f.severity, color) + f.message)

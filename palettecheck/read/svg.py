@@ -27,7 +27,10 @@ from pathlib import Path
 import numpy as np
 
 from ..color import ColorError, parse_color
-from ..extract import ColorCounts
+from ..errors import ReadError
+from .extract import ColorCounts, extract
+from .files import file_size
+from .raster import counts_from_image, open_image_bytes
 
 __all__ = ["MAX_SVG_BYTES", "read_counts", "read"]
 
@@ -46,8 +49,6 @@ _UNITS = {"px": 1.0, "pt": 4 / 3, "pc": 16.0, "mm": 96 / 25.4, "cm": 96 / 2.54, 
 
 
 def _error(path, message: str):
-    from . import ReadError
-
     return ReadError(f"{path}: {message}")
 
 
@@ -332,8 +333,6 @@ class _Painter:
         self.add(stroke, length * width, opacity)
 
     def image(self, el, m, opacity):
-        from .raster import counts_from_image, open_image_bytes
-
         href = el.get("href") or el.get(_XLINK) or ""
         match = re.match(r"data:image/(png|jpeg|jpg|webp);base64,(.*)", href.strip(), re.S)
         if not match:
@@ -374,8 +373,6 @@ def read_counts(path) -> ColorCounts:
     """Parse an SVG safely and collect its paint; raises ReadError."""
     import defusedxml
     from defusedxml import ElementTree as SafeET
-
-    from . import file_size
 
     path = Path(path)
     size = file_size(path)
@@ -424,6 +421,4 @@ def read_counts(path) -> ColorCounts:
 
 def read(path: Path, background):
     """The ``READERS`` entry point: one SVG chart -> its palette."""
-    from ..extract import extract
-
     return extract(read_counts(path), background, source=str(path)).palette()

@@ -1,13 +1,14 @@
-"""Run every check on a palette and gather the result the reports print."""
+"""Run every check on a palette and gather the result the reports print: :class:`CheckResult`."""
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-
-from .checks import ALL_CHECKS, ERROR, Finding, Perceived, pair_indices, perceive_palette, required_contrast
-from .color import Palette
-from .config import Settings
+from ..color import Palette
+from ..config import Settings
+from ..perceive.palette import Perceived, pair_indices, perceive_palette
+from ..terms import ERROR, SEVERITIES
+from .checks import ALL_CHECKS, Finding, required_contrast
 from .score import Score, score_findings
 
 __all__ = ["CheckResult", "check_palette"]
@@ -79,6 +80,5 @@ def check_palette(palette: Palette, settings: Settings | None = None) -> CheckRe
     settings = settings or Settings()
     perceived = perceive_palette(palette, settings)
     findings = [f for check in ALL_CHECKS for f in check(perceived)]
-    order = {"error": 0, "warning": 1, "info": 2}
-    findings.sort(key=lambda f: order[f.severity])
+    findings.sort(key=lambda f: SEVERITIES.index(f.severity))
     return CheckResult(palette, settings, perceived, findings, score_findings(findings))

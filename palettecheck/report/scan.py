@@ -1,34 +1,14 @@
-"""Scan output: one line per chart in text, one object per chart in JSON; Markdown and
-HTML from their own modules."""
+"""Scan output: one line per chart in text, one object per chart in JSON (Markdown and
+HTML scan pages are in their own modules)."""
 
 from __future__ import annotations
 
 import json
 import shutil
 
-from . import CAUTION
+from .facts import CAUTION, colors_summary, main_problem
 
-_RANK = {"error": 0, "warning": 1}
-
-
-def main_problem(check) -> str:
-    """The first error, else the first warning, of a chart's check; '-' when none."""
-    found = [f for f in check.result.findings if f.severity in _RANK]
-    if not found and not check.reading.colors:
-        return "nothing to check: no data colours found (only the background and greys)"
-    if not found:
-        return "-"
-    f = min(found, key=lambda f: _RANK[f.severity])
-    return f"{f.severity}: {f.message}"
-
-
-def _colours(check) -> str:
-    r = check.reading
-    greys = f" +{len(r.neutrals)} grey" if r.neutrals else ""
-    if r.scale == "continuous":
-        return f"{r.ramp_kind} scale{greys}"
-    return f"{len(r.colors)}{greys}"
-
+__all__ = ["render_table", "render_scan_json", "render_scan_text"]
 
 def _fit(text: str, width: int | None) -> str:
     return text if width is None or len(text) <= width else text[: max(1, width - 1)] + "…"
@@ -38,7 +18,7 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
     """The summary table; ``width`` (a terminal's) shortens long problems and paths."""
     rows = []
     for c in report.images:
-        rows.append((c.path, c.reading.background, _colours(c), str(c.result.score.value),
+        rows.append((c.path, c.reading.background, colors_summary(c), str(c.result.score.value),
                      "pass" if c.passed else "FAIL", main_problem(c)))
     for path, message in report.errors:
         problem = message[len(path) + 2:] if message.startswith(f"{path}: ") else message
@@ -63,19 +43,11 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
     return "\n".join(lines + ["", tally, notes, "", CAUTION, ""])
 
 
-def render_scan(report, fmt: str, color: bool = False) -> str:
-    """A scan's report in one of :data:`palettecheck.report.FORMATS`."""
-    if fmt == "markdown":
-        from .markdown import render_scan_markdown
+def render_scan_json(report) -> str:
+    return json.dumps({**report.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
 
-        return render_scan_markdown(report)
-    if fmt == "html":
-        from .html import render_scan_html
 
-        return render_scan_html(report)
-    if fmt == "json":
-        d = report.to_dict()
-        d["caution"] = CAUTION
-        return json.dumps(d, indent=2, ensure_ascii=False) + "\n"
+def render_scan_text(report, color: bool = False) -> str:
+    """The summary table, fitted to the terminal's width when printing in colour."""
     width = shutil.get_terminal_size((120, 24)).columns if color else None
     return render_table(report, color=color, width=width)

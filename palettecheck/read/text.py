@@ -14,6 +14,7 @@ import re
 from pathlib import Path
 
 from ..color import ColorError, Palette, make_palette
+from .files import read_text_file
 
 _FUNC = re.compile(r"^((?:rgba?|hsla?)\([^)]*\))\s*(.*)$", re.IGNORECASE)
 _LOCK = re.compile(r"\s*(?:!|\(locked\))\s*$", re.IGNORECASE)
@@ -37,8 +38,6 @@ def parse_line(line: str):
 
 
 def read(path: Path, background) -> Palette:
-    from . import read_text_file
-
     entries = []
     for n, line in enumerate(read_text_file(path).splitlines(), 1):
         entry = parse_line(line)

@@ -4,7 +4,7 @@ A ramp runs away from the first background: its near end sits a comfortable ΔE'
 off the page, its far end at J' 18 on a light background (96 on a dark one), unless
 ``lightness`` gives the span. Its hue and colourfulness follow one base colour or
 two (a diverging ramp: one per arm); the path and the colours along it come from
-:mod:`palettecheck.ramp_geometry`. When neighbours merge under some vision, the
+:mod:`palettecheck.generate.ramp_path`. When neighbours merge under some vision, the
 colourfulness is lowered step by step, then longer J' spans are tried; the first
 attempt whose neighbours stay apart is returned, else the most distinct one with
 the binding constraint named. :func:`colormap` samples the same path continuously.
@@ -13,15 +13,18 @@ the binding constraint named. :func:`colormap` samples the same path continuousl
 from __future__ import annotations
 
 from dataclasses import replace
+from functools import partial
 
 import numpy as np
 
-from .checks import seen
-from .color import parse_color, to_hex
-from .config import Settings
-from .generated import Generated, GenerateError, _band, _colour, _count, _finish, _settings
-from .perceive import from_ucs, to_ucs
-from .ramp_geometry import MAX_STEPS, _polar, _ramp_colours, _round_even
+from ..color import parse_color, to_hex
+from ..config import Settings
+from ..errors import GenerateError
+from ..perceive.palette import perceive_colors
+from ..perceive.ucs import from_ucs, to_ucs
+from .ramp_path import MAX_STEPS, polar, ramp_colors, round_even
+from .request import color_count, lightness_band, opaque_color, settings_for
+from .result import Generated, finish, listed_colormap
 
 __all__ = ["sequential", "diverging", "colormap", "DEFAULT_SEQUENTIAL", "DEFAULT_DIVERGING", "FAR_LIGHTNESS"]
 
@@ -55,7 +58,7 @@ def _ends(settings: Settings, lightness) -> list[tuple[float, float]]:
     other; the first is the most comfortable, the later ones longer."""
     side, j_bg = _side(settings)
     if lightness is not None:
-        lo, hi = _band(lightness, None)
+        lo, hi = lightness_band(lightness, None)
         return [(hi, lo) if side == "light" else (lo, hi)]
     out = []
     for factor, extra in _LAYOUTS:
@@ -74,7 +77,7 @@ def _anchors(colors, default, viewing) -> list[tuple[float, float, float]]:
         return list(default)
     out = []
     for c in colors:
-        j, m, h = _polar(to_ucs(_colour(c, f"--from {c}"), viewing))
+        j, m, h = polar(to_ucs(opaque_color(c, f"--from {c}"), viewing))
         if m < 3.0:
             raise GenerateError(f"--from {c}: a grey has no hue to build a ramp on; give a colour")
         out.append((float(j), float(m), float(h)))
@@ -82,9 +85,9 @@ def _anchors(colors, default, viewing) -> list[tuple[float, float, float]]:
 
 
 def _ramp(kind, n, colors, lightness, settings):
-    settings = _settings(settings, kind)
+    settings = settings_for(settings, kind)
     lo = 2 if kind == "sequential" else 3
-    n = _count(n, lo, MAX_STEPS, kind, f"more steps than {MAX_STEPS} are a continuous colormap: "
+    n = color_count(n, lo, MAX_STEPS, kind, f"more steps than {MAX_STEPS} are a continuous colormap: "
                                      "use palettecheck.colormap")
     allowed, words = ((2,), "two colours") if kind == "diverging" else ((1, 2), "one or two colours")
     if colors and len(colors) not in allowed:
@@ -94,11 +97,11 @@ def _ramp(kind, n, colors, lightness, settings):
     for near, far in _ends(settings, lightness):
         for scale in _CHROMA_SCALES:
             scaled = [(j, m * scale, h) for j, m, h in anchors]
-            exact, arms, paths = _ramp_colours(kind, n, scaled, near, far, settings.viewing)
-            rgb = _round_even(np.clip(exact, 0, 255), arms, settings.viewing)
+            exact, arms, paths = ramp_colors(kind, n, scaled, near, far, settings.viewing)
+            rgb = round_even(np.clip(exact, 0, 255), arms, settings.viewing)
             recipe = {"colors": tuple(colors or ()), "lightness": (min(near, far), max(near, far)),
                       "settings": settings, "chroma_scale": scale}
-            trial = _finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
+            trial = finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
             trial.exact = exact
             if gen is None or trial.min_delta_e > gen.min_delta_e:
                 gen, shape = trial, (near, far, paths)
@@ -119,6 +122,7 @@ def _ramp(kind, n, colors, lightness, settings):
                          "an odd -n gives a neutral midpoint instead")
     if not gen.passed:
         gen.explanation = _explain_ramp(gen, paths, near, far)
+    gen.continuous = partial(colormap, kind, **gen.recipe)
     return gen
 
 
@@ -145,7 +149,7 @@ def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
     if errors & {"distinguishable", "near-duplicate"}:
         lengths = {}
         for v in s.visions:
-            views = [seen(np.clip(from_ucs(p, s.viewing), 0, 255), s, (v,))[0] for p in paths]
+            views = [perceive_colors(np.clip(from_ucs(p, s.viewing), 0, 255), s, (v,))[0] for p in paths]
             lengths[v] = min(float(np.linalg.norm(np.diff(u, axis=0), axis=-1).sum()) for u in views)
         v = min(lengths, key=lengths.get)
         steps = int(lengths[v] // s.error_delta_e)
@@ -187,9 +191,9 @@ def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings:
     if kind not in ("sequential", "diverging"):
         raise GenerateError("a continuous colormap is sequential or diverging; "
                             "use Generated.colormap() for categorical colours")
-    settings = _settings(settings, kind)
+    settings = settings_for(settings, kind)
     if background is not None:
-        settings = replace(settings, backgrounds=(to_hex(_colour(background, "background")),))
+        settings = replace(settings, backgrounds=(to_hex(opaque_color(background, "background")),))
     if chroma_scale is None or lightness is None:
         probe = _ramp(kind, 9, colors, lightness, settings).recipe
         chroma_scale = probe["chroma_scale"] if chroma_scale is None else chroma_scale
@@ -197,15 +201,6 @@ def colormap(kind: str = "sequential", colors=None, *, lightness=None, settings:
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
     anchors = [(j, m * chroma_scale, h) for j, m, h in anchors]
     [(near, far)] = _ends(settings, lightness)
-    rgb, _, _ = _ramp_colours(kind, int(resolution), anchors, near, far, settings.viewing)
-    return _as_colormap(np.clip(rgb / 255.0, 0.0, 1.0), name or f"palettecheck-{kind}", register)
+    rgb, _, _ = ramp_colors(kind, int(resolution), anchors, near, far, settings.viewing)
+    return listed_colormap(np.clip(rgb / 255.0, 0.0, 1.0), name or f"palettecheck-{kind}", register)
 
-
-def _as_colormap(rgb1, name, register):
-    import matplotlib
-    from matplotlib.colors import ListedColormap
-
-    cmap = ListedColormap(rgb1, name=name)
-    if register:
-        matplotlib.colormaps.register(cmap, name=name, force=True)
-    return cmap

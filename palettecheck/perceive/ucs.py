@@ -1,4 +1,4 @@
-"""Perception layer: sRGB to CAM02-UCS, colour difference, WCAG luminance and contrast.
+"""sRGB to CAM02-UCS and back, colour difference ΔE', the sRGB transfer functions.
 
 Arrays follow the ``(..., 3)`` rule: anything array-like is accepted, converted to
 float, channels on the last axis. The numeric scale is in the name: ``srgb255`` is
@@ -11,8 +11,6 @@ References
 - [CIE159] CIE 159:2004, A colour appearance model for colour management systems:
   CIECAM02.
 - [IEC61966] IEC 61966-2-1:1999, sRGB.
-- [WCAG21] W3C Web Content Accessibility Guidelines 2.1/2.2, definitions of
-  "relative luminance" and "contrast ratio".
 
 The conversions themselves are colorspacious's; this module only fixes the viewing
 conditions, caches the converters and keeps every call vectorised.
@@ -20,10 +18,11 @@ conditions, caches the converters and keeps every call vectorised.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from functools import lru_cache
 
 import numpy as np
+
+from ..config import SRGB_VIEWING, Viewing
 
 __all__ = [
     "Viewing",
@@ -34,31 +33,8 @@ __all__ = [
     "pairwise_delta_e",
     "srgb1_to_linear",
     "linear_to_srgb1",
-    "relative_luminance",
-    "contrast_ratio",
     "in_gamut",
 ]
-
-
-@dataclass(frozen=True)
-class Viewing:
-    """CIECAM02 viewing conditions [CIE159]; symbols follow the paper.
-
-    :param XYZ100_w: white point, Y = 100 (a name such as ``"D65"`` or three numbers).
-    :param Y_b: relative luminance of the background, percent.
-    :param L_A: adapting luminance, cd/m².
-    :param surround: ``"average"``, ``"dim"`` or ``"dark"``.
-    """
-
-    XYZ100_w: object = "D65"
-    Y_b: float = 20.0
-    L_A: float = (64 / np.pi) * 0.2
-    surround: str = "average"
-
-
-#: The sRGB reference display: 64 lux ambient, 20 % grey background, average surround
-#: (the defaults of colorspacious and of [Luo2006]'s sRGB use).
-SRGB_VIEWING = Viewing()
 
 
 @lru_cache(maxsize=16)
@@ -127,21 +103,6 @@ def linear_to_srgb1(linear) -> np.ndarray:
     """sRGB encoding, the inverse of :func:`srgb1_to_linear` [IEC61966]."""
     c = np.asarray(linear, dtype=float)
     return np.where(c <= 0.0031308, 12.92 * c, 1.055 * np.abs(c) ** (1 / 2.4) * np.sign(c) - 0.055)
-
-
-_LUMA = np.array([0.2126, 0.7152, 0.0722])
-
-
-def relative_luminance(srgb255) -> np.ndarray:
-    """WCAG relative luminance (0-1) of sRGB 0-255 colours [WCAG21]."""
-    return srgb1_to_linear(np.asarray(srgb255, dtype=float) / 255.0) @ _LUMA
-
-
-def contrast_ratio(srgb255_a, srgb255_b) -> np.ndarray:
-    """WCAG contrast ratio (1-21), symmetric, never rounded [WCAG21]."""
-    la = relative_luminance(srgb255_a)
-    lb = relative_luminance(srgb255_b)
-    return (np.maximum(la, lb) + 0.05) / (np.minimum(la, lb) + 0.05)
 
 
 def in_gamut(srgb255, tol: float = 1e-6) -> np.ndarray:

@@ -1,6 +1,6 @@
 """Vision layer: what a palette looks like to readers with a colour-vision deficiency.
 
-Arrays follow the ``(..., 3)`` rule of :mod:`palettecheck.perceive`; colours are sRGB
+Arrays follow the ``(..., 3)`` rule of :mod:`palettecheck.perceive.ucs`; colours are sRGB
 on the 0-255 scale.
 
 References
@@ -31,16 +31,10 @@ from __future__ import annotations
 
 import numpy as np
 
-from .perceive import linear_to_srgb1, srgb1_to_linear
+from ..terms import CVD_MODELS, CVD_VISIONS, GREY_VISION, VISIONS
+from .ucs import linear_to_srgb1, srgb1_to_linear
 
-__all__ = ["VISIONS", "CVD_VISIONS", "CVD_METHODS", "simulate"]
-
-#: Every vision palettecheck knows, in report order.
-VISIONS = ("normal", "protanopia", "deuteranopia", "tritanopia", "achromatopsia")
-#: The dichromacies simulated with [Machado2009] (default) or [Brettel1997].
-CVD_VISIONS = ("protanopia", "deuteranopia", "tritanopia")
-#: Simulation methods for the three dichromacies; the first is the default.
-CVD_METHODS = ("machado", "brettel")
+__all__ = ["VISIONS", "CVD_VISIONS", "CVD_MODELS", "simulate"]
 
 _CVD_TYPE = {"protanopia": "protanomaly", "deuteranopia": "deuteranomaly", "tritanopia": "tritanomaly"}
 
@@ -121,12 +115,12 @@ def simulate(srgb255, vision: str, severity: float = 1.0, method: str = "machado
         [Brettel1997]. With ``"brettel"`` a severity below 1 interpolates linearly,
         in linear RGB, between the colour and its full dichromat projection.
     """
-    if method not in CVD_METHODS:
-        raise ValueError(f"unknown simulation method {method!r}; choose from {', '.join(CVD_METHODS)}")
+    if method not in CVD_MODELS:
+        raise ValueError(f"unknown simulation method {method!r}; choose from {', '.join(CVD_MODELS)}")
     rgb = np.asarray(srgb255, dtype=float)
     if vision == "normal":
         return rgb.copy()
-    if vision == "achromatopsia":
+    if vision == GREY_VISION:
         y = srgb1_to_linear(rgb / 255.0) @ np.array([0.2126, 0.7152, 0.0722])
         grey = linear_to_srgb1(np.clip(y, 0.0, 1.0)) * 255.0
         return np.repeat(grey[..., None], 3, axis=-1)

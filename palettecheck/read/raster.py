@@ -25,15 +25,17 @@ from pathlib import Path
 
 import numpy as np
 
-from ..extract import ColorCounts
+from ..errors import ReadError
+from ..terms import RASTER_EXTENSIONS
+from .extract import ColorCounts, extract
+from .files import file_size
 
 __all__ = ["MAX_PIXELS", "RASTER_EXTENSIONS", "read_counts", "open_image", "open_image_bytes",
-           "counts_from_image", "read"]
+           "counts_from_image", "apply_icc", "read"]
 
 #: Images larger than this many pixels are refused before decoding (64 million:
 #: an 8000 x 8000 chart; a 4K export is 8.3 million).
 MAX_PIXELS = 64_000_000
-RASTER_EXTENSIONS = (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff")
 _FORMATS = ["PNG", "JPEG", "WEBP", "GIF", "BMP", "TIFF"]
 _DIRECT = ("RGBA", "RGBX", "CMYK")
 #: Pixels in horizontal runs of at least this many equal neighbours count as flat fill.
@@ -46,8 +48,6 @@ _BLOCK = 1 << 20
 
 
 def _error(path, message: str):
-    from . import ReadError
-
     return ReadError(f"{path}: {message}")
 
 
@@ -151,14 +151,14 @@ def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list) -> np.
     raw = np.ascontiguousarray(np.rint(quad).astype(np.uint8))
     strip = Image.frombytes(mode, (len(quad), 1), raw.tobytes())
     strip = strip if mode == "CMYK" else strip.convert("RGB")
-    converted = _apply_icc(strip, icc, notes) if icc else None
+    converted = apply_icc(strip, icc, notes) if icc else None
     if converted is None:
         converted = strip.convert("RGB")
     rgb = np.asarray(converted.convert("RGB"), dtype=float).reshape(-1, 3)
     return np.concatenate([rgb, alpha[:, None]], axis=1)
 
 
-def _apply_icc(strip, icc: bytes, notes: list):
+def apply_icc(strip, icc: bytes, notes: list):
     """Convert a strip of colours from its embedded profile to sRGB, or None."""
     import io
 
@@ -184,8 +184,6 @@ def _apply_icc(strip, icc: bytes, notes: list):
 
 def open_image(path: Path, max_pixels: int = MAX_PIXELS):
     """Open a file (header only) with its size checked; raises ReadError."""
-    from . import file_size
-
     file_size(path)
     return _open(path, path, max_pixels)
 
@@ -276,7 +274,5 @@ def read_counts(path, max_pixels: int = MAX_PIXELS) -> ColorCounts:
 
 def read(path: Path, background):
     """The ``READERS`` entry point: one chart image -> its palette."""
-    from ..extract import extract
-
     counts = read_counts(path)
     return extract(counts, background, source=str(path)).palette()

@@ -21,7 +21,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .checks import ERROR, INFO, WARNING, Finding
+from ..terms import ERROR, INFO, WARNING
+from .checks import Finding
 
 __all__ = ["Score", "score_findings", "deduction", "CAP"]
 

@@ -10,17 +10,20 @@ import re
 from pathlib import Path
 
 from ..color import ColorError, Palette, make_palette, parse_color
+from .files import read_text_file
 
-_COMMENT = re.compile(r"/\*.*?\*/", re.DOTALL)
-_PROP = re.compile(r"--([A-Za-z0-9_-]+)\s*:\s*([^;}]+)")
+__all__ = ["read", "COMMENT", "PROPERTY"]
+
+#: A CSS comment.
+COMMENT = re.compile(r"/\*.*?\*/", re.DOTALL)
+#: A custom property and its value.
+PROPERTY = re.compile(r"--([A-Za-z0-9_-]+)\s*:\s*([^;}]+)")
 
 
 def read(path: Path, background) -> Palette:
-    from . import read_text_file
-
-    text = _COMMENT.sub("", read_text_file(path))
+    text = COMMENT.sub("", read_text_file(path))
     entries = []
-    for name, value in _PROP.findall(text):
+    for name, value in PROPERTY.findall(text):
         value = value.strip()
         if value.lower().endswith("!important"):
             value = value[: -len("!important")].strip()

@@ -12,23 +12,24 @@ both arms have the same steps.
 
 References
 ----------
-- [Luo2006] Luo, Cui & Li (2006), CAM02-UCS; see :mod:`palettecheck.perceive`.
+- [Luo2006] Luo, Cui & Li (2006), CAM02-UCS; see :mod:`palettecheck.perceive.ucs`.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from .color import parse_color
-from .perceive import SRGB_VIEWING, from_ucs, to_ucs
+from ..color import parse_color
+from ..config import SRGB_VIEWING
+from ..perceive.ucs import from_ucs, to_ucs
 
-__all__ = ["max_chroma", "ramp_metrics", "MAX_STEPS"]
+__all__ = ["max_chroma", "ramp_metrics", "polar", "ramp_colors", "round_even", "MAX_STEPS"]
 
-MAX_STEPS = 64  #: most colours in a generated ramp (a continuous one: :func:`palettecheck.ramps.colormap`)
+MAX_STEPS = 64  #: most colours in a generated ramp (a continuous one: :func:`palettecheck.generate.ramps.colormap`)
 _DENSE = 1200  #: path samples
 
 
-def _polar(jab) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def polar(jab) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     jab = np.asarray(jab, dtype=float)
     return jab[..., 0], np.hypot(jab[..., 1], jab[..., 2]), np.degrees(np.arctan2(jab[..., 2], jab[..., 1])) % 360
 
@@ -156,7 +157,7 @@ def _equal_chords(path: np.ndarray, count: int, offset: float = 0.0) -> np.ndarr
     return best
 
 
-def _ramp_colours(kind, n, anchors, near, far, viewing):
+def ramp_colors(kind, n, anchors, near, far, viewing):
     """(rgb float (n, 3), arms index lists, dense paths) of a ramp."""
     t = np.linspace(0.0, 1.0, _DENSE)
     if kind == "sequential":
@@ -177,7 +178,7 @@ def _ramp_colours(kind, n, anchors, near, far, viewing):
     return from_ucs(jab, viewing), arms, paths
 
 
-def _round_even(rgb: np.ndarray, arms_idx: list[list[int]], viewing) -> np.ndarray:
+def round_even(rgb: np.ndarray, arms_idx: list[list[int]], viewing) -> np.ndarray:
     """Round each colour to the ``#rrggbb`` corner of its cell that keeps the ΔE' steps
     of every arm most even (coordinate descent over the 8 corners)."""
     out = np.round(rgb)

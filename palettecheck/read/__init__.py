@@ -1,4 +1,6 @@
-"""Readers: one module per source kind, each turning a file into a Palette.
+"""Read: sources in, palettes and chart colours out; repaired palettes written back.
+
+One module per source kind turns a file into a Palette.
 
 :func:`read_source` decides what a command-line SOURCE is: an existing file is read
 by its extension; anything else must be a colour.
@@ -10,13 +12,14 @@ import os
 from importlib import import_module
 from pathlib import Path
 
-from ..color import WHITE, ColorError, Palette, make_palette
+from ..color import WHITE, Palette, make_palette
+from ..errors import ColorError, ReadError
+from .files import MAX_FILE_BYTES as MAX_FILE_BYTES
+from .images import IMAGE_EXTENSIONS, find_images, read_image
+from .rewrite import palette_text, rewrite_source
 
-__all__ = ["ReadError", "read_source", "read_sources", "READERS", "MAX_FILE_BYTES"]
-
-
-class ReadError(ValueError):
-    """A source that cannot be read; the message names the file and the problem."""
+__all__ = ["ReadError", "read_source", "read_sources", "READERS", "MAX_FILE_BYTES", "IMAGE_EXTENSIONS",
+           "read_image", "find_images", "write_back"]
 
 
 #: extension -> module in this package with a ``read(path, background) -> Palette``
@@ -25,43 +28,10 @@ READERS = {
     ".json": "jsonfile",
     ".tokens": "jsonfile",
     ".css": "css",
-    # chart images: one image = one palette (its data colours; see palettecheck.extract)
-    **{ext: "raster" for ext in (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff")},
+    # chart images: one image = one palette (its data colours; see palettecheck.read.extract)
+    **{ext: "raster" for ext in IMAGE_EXTENSIONS if ext != ".svg"},
     ".svg": "svg",
 }
-
-#: Palette text files larger than this are refused (a palette is a few lines).
-MAX_FILE_BYTES = 4 * 1024 * 1024
-
-
-def file_size(path: Path, what: str = "an image") -> int:
-    """Size in bytes of an input file that exists, is a file and is not empty;
-    raises ReadError naming the file otherwise."""
-    try:
-        size = path.stat().st_size
-    except OSError as e:
-        raise ReadError(f"{path}: cannot read ({e.strerror or e})") from None
-    if path.is_dir():
-        raise ReadError(f"{path}: is a folder, not {what}")
-    if size == 0:
-        raise ReadError(f"{path}: empty file (0 bytes)")
-    return size
-
-
-def read_text_file(path: Path) -> str:
-    """Read a small UTF-8 file, with errors that name it."""
-    try:
-        size = path.stat().st_size
-        if size > MAX_FILE_BYTES:
-            raise ReadError(f"{path}: {size} bytes is too large for a palette file")
-        return path.read_text(encoding="utf-8-sig")
-    except UnicodeDecodeError:
-        raise ReadError(f"{path}: not a UTF-8 text file") from None
-    except IsADirectoryError:
-        raise ReadError(f"{path}: is a folder, not a palette file") from None
-    except OSError as e:
-        raise ReadError(f"{path}: cannot read ({e.strerror or e})") from None
-
 
 def read_source(source: str, background=WHITE) -> Palette:
     """A palette from one SOURCE: a palette or image file, or a single colour."""
@@ -99,3 +69,18 @@ def read_sources(sources, background=WHITE) -> Palette:
     for p in palettes[1:]:
         out = out + p
     return out
+
+
+def write_back(sources, palette: Palette, hexes) -> tuple[str, str]:
+    """A repaired palette as a file: ``(text, suggested file name)``.
+
+    One palette file as the only SOURCE is rewritten in its own format, only its
+    colours changed (comments, names and other properties kept); anything else
+    becomes a text palette. ``hexes`` are the new colours, in palette order.
+    """
+    files = [Path(s) for s in sources if Path(s).suffix.lower() in READERS and Path(s).is_file()]
+    single = files[0] if len(sources) == 1 and len(files) == 1 else None
+    fixed = palette.with_hexes(hexes)
+    if single is None:
+        return palette_text(fixed, "text"), "palette-fixed.txt"
+    return rewrite_source(single, palette, fixed), f"{single.stem}-fixed{single.suffix}"

@@ -7,25 +7,16 @@ threshold (0-1), which the score uses to grade the deduction.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+import re
+from dataclasses import dataclass
 
 import numpy as np
 
-from .color import Palette
-from .config import Settings
-from .perceive import contrast_ratio, pairwise_delta_e, to_ucs
-from .vision import simulate
+from ..perceive.palette import Perceived, pair_indices, perceive_colors
+from ..terms import ERROR, GREY_VISION, INFO, VISION_LABELS, WARNING
 
-__all__ = ["Finding", "Perceived", "seen", "perceive_palette", "pair_indices", "ALL_CHECKS"]
+__all__ = ["Finding", "ALL_CHECKS", "required_contrast", "ERROR", "WARNING", "INFO"]
 
-ERROR, WARNING, INFO = "error", "warning", "info"
-_VISION_LABEL = {
-    "normal": "normal vision",
-    "protanopia": "protanopia",
-    "deuteranopia": "deuteranopia",
-    "tritanopia": "tritanopia",
-    "achromatopsia": "grey (achromatic) view",
-}
 
 
 @dataclass(frozen=True)
@@ -35,50 +26,6 @@ class Finding:
     message: str
     indices: tuple[int, ...] = ()
     shortfall: float = 1.0  #: 0 (just at the threshold) to 1 (nowhere near it)
-
-
-@dataclass
-class Perceived:
-    """A palette as every configured vision sees it, with its backgrounds."""
-
-    palette: Palette
-    settings: Settings
-    rgb255: np.ndarray  #: (n, 3)
-    ucs: dict  #: vision -> (n, 3) CAM02-UCS J'a'b' (always has normal and achromatopsia)
-    delta: dict  #: vision -> (n, n) ΔE'
-    background_rgb255: np.ndarray  #: (m, 3)
-    contrast: np.ndarray = field(default=None)  #: (n, m) WCAG ratio colour vs background
-
-
-def seen(rgb255, settings: Settings, visions) -> np.ndarray:
-    """CAM02-UCS J'a'b' of sRGB 0-255 colours ``(..., 3)`` as each vision sees them,
-    with the settings' severity, CVD model and viewing conditions: ``(V, ..., 3)``.
-    The one place colours are simulated and measured, for checks and searches alike."""
-    rgb = np.asarray(rgb255, dtype=float)
-    sims = np.stack([simulate(rgb, v, settings.severity, settings.cvd_model) for v in visions])
-    return to_ucs(sims, settings.viewing)
-
-
-def perceive_palette(palette: Palette, settings: Settings) -> Perceived:
-    """Simulate each vision (plus the grey view) and measure everything once."""
-    from .color import parse_color
-
-    rgb = palette.rgb255
-    visions = tuple(dict.fromkeys(("normal", *settings.visions, "achromatopsia")))
-    ucs_all = seen(rgb, settings, visions)
-    ucs = {v: ucs_all[i] for i, v in enumerate(visions)}
-    delta = {v: pairwise_delta_e(u) for v, u in ucs.items()}
-    bg = np.array([parse_color(b)[0] for b in settings.backgrounds], dtype=float)
-    contrast = contrast_ratio(rgb[:, None, :], bg[None, :, :]) if len(rgb) else np.zeros((0, len(bg)))
-    return Perceived(palette, settings, rgb, ucs, delta, bg, contrast)
-
-
-def pair_indices(n: int, kind: str) -> list[tuple[int, int]]:
-    """The pairs a kind asks to tell apart: all of them for categorical colours,
-    neighbours for ordered ramps (whose far-apart steps differ by construction)."""
-    if kind == "categorical":
-        return [(i, j) for i in range(n) for j in range(i + 1, n)]
-    return [(i, i + 1) for i in range(n - 1)]
 
 
 def _name(p: Perceived, i: int) -> str:
@@ -96,8 +43,6 @@ def _below(value: float, threshold: float) -> str:
 
 def _digits(shown: str) -> int:
     """Decimals of the longest number in ``shown`` (so a threshold matches its values)."""
-    import re
-
     return max([len(x) for x in re.findall(r"\.(\d+)", shown)] or [1])
 
 
@@ -133,7 +78,7 @@ def check_distinguishable(p: Perceived) -> list[Finding]:
             continue
         below = [v for v in s.visions if values[v] < (err if low < err else warn)]
         limit = err if low < err else warn
-        where = ", ".join(f"{_VISION_LABEL[v]} {_below(values[v], limit)}" for v in below)
+        where = ", ".join(f"{VISION_LABELS[v]} {_below(values[v], limit)}" for v in below)
         if low < err:
             out.append(Finding(
                 "distinguishable", ERROR,
@@ -150,7 +95,7 @@ def check_distinguishable(p: Perceived) -> list[Finding]:
 def check_grey(p: Perceived) -> list[Finding]:
     """Grey print: pairs that merge when the chart is printed or shown in grey."""
     s = p.settings
-    d = p.delta["achromatopsia"]
+    d = p.delta[GREY_VISION]
     severity = ERROR if s.print_safe else WARNING
     out = []
     for i, j in pair_indices(len(p.rgb255), s.kind):
@@ -205,7 +150,7 @@ def _blends_into_background(p: Perceived) -> list[Finding]:
     for k, bg in enumerate(p.background_rgb255):
         low = np.full(len(p.rgb255), np.inf)
         for v in s.visions:
-            bg_ucs = seen(bg, s, (v,))[0]
+            bg_ucs = perceive_colors(bg, s, (v,))[0]
             low = np.minimum(low, np.sqrt(np.sum((p.ucs[v] - bg_ucs) ** 2, axis=-1)))
         for i in np.nonzero(low < s.error_delta_e)[0]:
             out.append(Finding(

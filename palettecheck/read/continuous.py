@@ -1,12 +1,12 @@
 """Continuous colour scales in a chart: finding one, and the steps to check along it.
 
 A heat map or a colour bar is drawn with many colours along one smooth path in
-CAM02-UCS rather than with a few chosen ones. :func:`_continuous` looks for that path
-among the merged colour groups of :func:`palettecheck.extract.extract`: the longest
+CAM02-UCS rather than with a few chosen ones. :func:`find_continuous` looks for that path
+among the merged colour groups of :func:`palettecheck.read.extract.extract`: the longest
 path through their minimum spanning tree (ΔE' edges), which must hold nearly all of
 the chromatic pixels, be long, run in small steps and spread its pixels over many
 colours. Thin tails, text or axis colours beyond a jump, and the blends where a
-grey outline meets the scale are trimmed from its ends. :func:`_sample_path` reports
+grey outline meets the scale are trimmed from its ends. :func:`sample_path` reports
 it as evenly spaced steps, starting at the end nearest the background, checked as a
 sequential or a diverging ramp; :func:`ramp_order` puts given colours in ramp order
 the same way.
@@ -18,9 +18,9 @@ import math
 
 import numpy as np
 
-from .perceive import to_ucs
+from ..perceive.ucs import to_ucs
 
-__all__ = ["ramp_order"]
+__all__ = ["ramp_order", "find_continuous", "sample_path", "segment_distance", "SCALE_MIN_COLORS"]
 
 #: Most steps reported for a continuous scale ...
 RAMP_STEPS = 9
@@ -43,7 +43,7 @@ SCALE_MIN_COVERAGE = 0.85
 SCALE_TAIL = 0.002
 
 
-def _segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
+def segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
     """Distance from point ``x`` to each segment ``p[i] + t (q[i] - p[i])``, t in [lo, hi]."""
     d = q - p
     dd = (d * d).sum(-1)
@@ -97,7 +97,7 @@ def _mst_path(jab: np.ndarray):
     return path[::-1], d
 
 
-def _continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=(), *, neutral: float, blend_tol: float):
+def find_continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=(), *, neutral: float, blend_tol: float):
     """The ordered path of a continuous scale and the weight along it, or None.
 
     ``neutral`` is the M' below which a colour reads as grey; an end of the path
@@ -141,7 +141,7 @@ def _continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=(), *, n
                 p_in = rgb[path[inward]]
                 starts = np.repeat(p_in, len(greys), axis=0)
                 stops = np.tile(rgb[greys], (len(p_in), 1))
-                if _segment_distance(rgb[path[end]], starts, stops, 0.0, 0.95).min() <= tol:
+                if segment_distance(rgb[path[end]], starts, stops, 0.0, 0.95).min() <= tol:
                     path, along = (path[1:], along[1:]) if end == 0 else (path[:-1], along[:-1])
     # a faint end that turns lightness back, or greys where the scale is colourful,
     # is text or an outline meeting the scale
@@ -187,7 +187,7 @@ def _ramp_kind(jab: np.ndarray) -> str:
     return "sequential"
 
 
-def _sample_path(jab, path, along, bg_jab):
+def sample_path(jab, path, along, bg_jab):
     """Steps along a scale's path, evenly spaced by ΔE', and its kind.
 
     A sequential scale starts at the end nearest the background. A diverging one

@@ -1,6 +1,6 @@
 """Categorical palettes that pass the checks: colours as far apart as every vision allows.
 
-:func:`palettecheck.search.search` maximises the smallest ΔE' (CAM02-UCS [Luo2006])
+:func:`palettecheck.generate.search.search` maximises the smallest ΔE' (CAM02-UCS [Luo2006])
 over the settings' visions (and the grey view when ``print_safe``), softly (a smooth
 minimum), next to kept colours, within a J' band, above an M' floor and at the
 required WCAG contrast [WCAG21] against every background. Secondary terms mirror the
@@ -10,7 +10,7 @@ is ordered so that the colours used first differ most.
 
 References
 ----------
-- [Luo2006] Luo, Cui & Li (2006), CAM02-UCS; see :mod:`palettecheck.perceive`.
+- [Luo2006] Luo, Cui & Li (2006), CAM02-UCS; see :mod:`palettecheck.perceive.ucs`.
 - [WCAG21] SC 1.4.11 non-text contrast 3:1; see :mod:`palettecheck.config`.
 """
 
@@ -20,9 +20,11 @@ from dataclasses import replace
 
 import numpy as np
 
-from .color import parse_color, to_hex
-from .config import Settings
-from .generated import Generated, GenerateError, _band, _colour, _count, _finish, _settings
+from ..color import parse_color, to_hex
+from ..config import Settings
+from ..errors import GenerateError
+from .request import color_count, lightness_band, opaque_color, settings_for
+from .result import Generated, finish
 from .search import Goal, Problem, Region, search
 
 __all__ = ["categorical", "categorical_problem", "DEFAULT_BUDGET", "DEFAULT_BAND", "DEFAULT_MIN_CHROMA"]
@@ -61,7 +63,7 @@ def _fewer_grey_merges(problem: Problem, sol, seed: int, budget: int):
     such pair charged as well (the score counts warnings, not only their depth)."""
     if problem.settings.print_safe or problem.n_free == 0:
         return sol
-    g = problem.see(sol.rgb255).ucs[problem.grey_idx]
+    g = problem.candidates(sol.rgb255).ucs[problem.grey_idx]
     d = np.linalg.norm(g[:, None] - g[None, :], axis=-1)
     if not np.any(np.triu(problem.pairs) & (d < problem.goal.grey_required)):
         return sol
@@ -72,10 +74,10 @@ def _fewer_grey_merges(problem: Problem, sol, seed: int, budget: int):
 def categorical_problem(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_MIN_CHROMA,
                         settings: Settings | None = None) -> Problem:
     """The search problem :func:`categorical` solves (for benchmarks and tests)."""
-    settings = _settings(settings, "categorical")
-    n = _count(n, 1, settings.max_count, "categorical",
+    settings = settings_for(settings, "categorical")
+    n = color_count(n, 1, settings.max_count, "categorical",
                f"more fail the count check, max_count {settings.max_count}; label directly or group")
-    kept = [_colour(k, f"--keep {k}") for k in keep]
+    kept = [opaque_color(k, f"--keep {k}") for k in keep]
     if len(kept) > n:
         raise GenerateError(f"--keep: {len(kept)} kept colours do not fit in -n {n}")
     hexes = [to_hex(k) for k in kept]
@@ -84,15 +86,15 @@ def categorical_problem(n: int, keep=(), *, lightness=None, min_chroma: float = 
         raise GenerateError(f"--keep: {', '.join(dup)} is given twice; kept colours must differ")
     if min_chroma < 0:
         raise GenerateError(f"chroma floor {min_chroma:g} must be 0 or more (M')")
-    region = Region(_band(lightness, DEFAULT_BAND), float(min_chroma), settings.contrast_needed)
+    region = Region(lightness_band(lightness, DEFAULT_BAND), float(min_chroma), settings.contrast_needed)
     return Problem(settings, np.array(kept).reshape(-1, 3), n - len(kept), region, _goal(settings))
 
 
 def _order(problem: Problem, rgb: np.ndarray) -> np.ndarray:
     """Kept colours first as given, then each next colour the one farthest (smallest
     ΔE' over the hard visions) from those already placed."""
-    seen = problem.see(rgb)
-    u = seen.ucs[problem.hard_idx]
+    measured = problem.candidates(rgb)
+    u = measured.ucs[problem.hard_idx]
     d = np.linalg.norm(u[:, :, None] - u[:, None, :], axis=-1).min(axis=0)
     order, rest = list(range(problem.k)), list(range(problem.k, len(rgb)))
     if not order and len(rest) > 1:  # no kept colour: start with the most different pair
@@ -116,7 +118,7 @@ def categorical(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_
     :param lightness: ``(MIN, MAX)`` J' band of the new colours (default 20-95).
     :param min_chroma: M' floor of the new colours (default 10: no greys).
     :param seed: the same seed gives the same palette.
-    :param budget: search starts (:func:`palettecheck.search.search`).
+    :param budget: search starts (:func:`palettecheck.generate.search.search`).
     """
     problem = categorical_problem(n, keep, lightness=lightness, min_chroma=min_chroma, settings=settings)
     sol = search(problem, seed=seed, budget=budget)
@@ -135,7 +137,7 @@ def categorical(n: int, keep=(), *, lightness=None, min_chroma: float = DEFAULT_
         rgb = _order(problem, sol.rgb255)
         hexes = [to_hex(c) for c in rgb]
     recipe = {"keep": tuple(keep), "lightness": lightness, "min_chroma": min_chroma, "budget": budget}
-    gen = _finish("categorical", hexes, problem.settings, [True] * problem.k + [False] * (len(hexes) - problem.k),
+    gen = finish("categorical", hexes, problem.settings, [True] * problem.k + [False] * (len(hexes) - problem.k),
                   recipe, seed)
     gen.requested = problem.n
     gen.exact = np.asarray(rgb, dtype=float)

@@ -11,8 +11,10 @@ import json
 import re
 from pathlib import Path
 
-from .color import ColorError, Palette, parse_color
-from .readers.text import parse_line
+from ..color import Palette, parse_color
+from ..errors import ColorError
+from .css import COMMENT, PROPERTY
+from .text import parse_line
 
 __all__ = ["palette_text", "rewrite_source"]
 
@@ -42,21 +44,19 @@ def _rewrite_text(text: str, old: list[str], new: list[str]) -> str:
     for line in text.splitlines(keepends=True):
         entry = parse_line(line)
         if entry is not None and k < len(old):
-            colour = entry[0]
+            color = entry[0]
             if new[k] != old[k]:
-                line = line.replace(colour, new[k], 1)
+                line = line.replace(color, new[k], 1)
             k += 1
         out.append(line)
     return "".join(out)
 
 
 def _rewrite_css(text: str, old: list[str], new: list[str]) -> str:
-    from .readers.css import _COMMENT, _PROP
-
     # Walk the custom properties outside comments in order, as the reader did.
     spans, pos = [], 0
-    masked = _COMMENT.sub(lambda m: " " * len(m.group(0)), text)
-    for m in _PROP.finditer(masked):
+    masked = COMMENT.sub(lambda m: " " * len(m.group(0)), text)
+    for m in PROPERTY.finditer(masked):
         value = m.group(2).strip()
         bare = value[: -len("!important")].strip() if value.lower().endswith("!important") else value
         try:

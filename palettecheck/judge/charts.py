@@ -1,6 +1,6 @@
 """Chart images in, one check per image out: the library side of ``palettecheck scan``.
 
-:func:`read_image` reads one chart's colours, :func:`scan` reads and checks files
+:func:`palettecheck.read.read_image` reads one chart's colours, :func:`scan` reads and checks files
 and folders (in parallel processes), :func:`check_figure` checks a live matplotlib
 Figure by rendering it to memory. All return the objects the command line prints.
 
@@ -13,19 +13,28 @@ unless a kind is given.
 
 from __future__ import annotations
 
+import io
 import os
-import stat
 from dataclasses import dataclass, field
-from pathlib import Path
 
-from .color import WHITE, parse_color
-from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE, ChartColors, ChartPalette, extract
+from ..color import make_palette
+from ..config import Settings
+from ..errors import ReadError
+from ..read import read_sources
+from ..read.continuous import ramp_order
+from ..read.extract import (
+    DEFAULT_MERGE_RADIUS,
+    DEFAULT_MIN_SHARE,
+    ChartColors,
+    ChartPalette,
+    extract,
+)
+from ..read.images import background_rgb, find_images, read_image
+from ..read.raster import counts_from_image, open_image_bytes
+from .result import CheckResult, check_palette
 
-__all__ = ["IMAGE_EXTENSIONS", "ImageCheck", "ScanReport", "read_image", "find_images", "check_image",
-           "prepare", "scan", "check_figure"]
-
-IMAGE_EXTENSIONS = (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff", ".svg")
-
+__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
+           "default_jobs"]
 
 @dataclass
 class ImageCheck:
@@ -33,7 +42,7 @@ class ImageCheck:
 
     path: str
     reading: ChartColors
-    result: object  #: :class:`palettecheck.judge.CheckResult`
+    result: CheckResult
 
     @property
     def passed(self) -> bool:
@@ -71,38 +80,6 @@ class ScanReport:
         }
 
 
-def _rgb(colour) -> tuple:
-    if colour is None:
-        return WHITE
-    if isinstance(colour, str):
-        return parse_color(colour)[0]
-    return tuple(float(c) for c in colour)
-
-
-def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
-               merge_radius: float = DEFAULT_MERGE_RADIUS) -> ChartColors:
-    """Read a chart image's colours: data colours with their shares, greys,
-    background and scale.
-
-    :param path: a PNG, JPEG, WebP, GIF, BMP, TIFF or SVG file.
-    :param background: what transparent images are composited over (a colour
-        string or sRGB 0-255 triple; default white).
-    :raises palettecheck.readers.ReadError: one line naming the file and the problem.
-    """
-    from .readers import ReadError
-
-    path = Path(path)
-    ext = path.suffix.lower()
-    if ext == ".svg":
-        from .readers.svg import read_counts
-    elif ext in IMAGE_EXTENSIONS:
-        from .readers.raster import read_counts
-    else:
-        raise ReadError(f"{path}: not a chart image ({', '.join(IMAGE_EXTENSIONS)})")
-    return extract(read_counts(path), _rgb(background), source=str(path),
-                   min_share=min_share, merge_radius=merge_radius)
-
-
 def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     """The palette and settings to check a chart image with.
 
@@ -117,80 +94,30 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     bgs = tuple(dict.fromkeys((reading.background, *backgrounds)))
     chosen = kind or (reading.ramp_kind if reading.scale == "continuous" else settings.kind)
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
-        from .scale import ramp_order
-
         order = ramp_order(palette.hexes, reading.background)
         palette = ChartPalette(tuple(palette[i] for i in order), palette.source, palette.notes, reading=reading)
     return palette, settings.updated(backgrounds=bgs, kind=chosen)
 
 
+def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
+                  backgrounds=()) -> CheckResult:
+    """Read SOURCEs (colours, palette files, chart images) into one palette and check it.
+
+    A chart image brings its own background and, for a continuous scale, its kind:
+    see :func:`prepare`. ``kind`` and ``backgrounds`` are the ones the user gave
+    (None and empty when not given); ``settings`` already holds them.
+    """
+    settings = settings or Settings()
+    palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
+    palette, settings = prepare(palette, settings, kind, backgrounds)
+    return check_palette(palette, settings)
+
+
 def check_image(reading: ChartColors, settings=None, *, kind: str | None = None, backgrounds=(),
                 include_neutrals: bool = False) -> ImageCheck:
     """Check what was read from one chart."""
-    from .config import Settings
-    from .judge import check_palette
-
     palette, s = prepare(reading.palette(include_neutrals), settings or Settings(), kind, backgrounds)
     return ImageCheck(reading.source, reading, check_palette(palette, s))
-
-
-def find_images(paths) -> tuple[list[Path], list[tuple[str, str]]]:
-    """Chart files named or found under folders (walked, following links, each
-    folder once: link loops end), sorted; hidden entries skipped. Returns
-    ``(files, errors)``; a file named explicitly is always kept."""
-    files, errors, seen = [], [], set()
-
-    def add(p: Path, st) -> None:
-        key = (st.st_dev, st.st_ino)
-        if key not in seen:
-            seen.add(key)
-            files.append(p)
-
-    for given in paths:
-        p = Path(given)
-        try:
-            st = p.stat()
-        except FileNotFoundError:
-            errors.append((str(p), f"{p}: no such file or folder"))
-            continue
-        except OSError as e:
-            errors.append((str(p), f"{p}: cannot read ({e.strerror or e})"))
-            continue
-        if not stat.S_ISDIR(st.st_mode):
-            add(p, st)
-            continue
-        folders = {(st.st_dev, st.st_ino)}
-
-        def failed(e: OSError) -> None:
-            where = e.filename or str(p)
-            errors.append((str(where), f"{where}: cannot open folder ({e.strerror or e})"))
-
-        found = []
-        for root, dirs, names in os.walk(p, onerror=failed, followlinks=True):
-            keep = []
-            for d in sorted(dirs):
-                if d.startswith("."):
-                    continue
-                try:
-                    ds = os.stat(os.path.join(root, d))
-                except OSError as e:
-                    failed(e)
-                    continue
-                if (ds.st_dev, ds.st_ino) not in folders:
-                    folders.add((ds.st_dev, ds.st_ino))
-                    keep.append(d)
-            dirs[:] = keep
-            for name in names:
-                if name.startswith(".") or os.path.splitext(name)[1].lower() not in IMAGE_EXTENSIONS:
-                    continue
-                f = Path(root) / name
-                try:
-                    found.append((f, f.stat()))
-                except OSError as e:
-                    errors.append((str(f), f"{f}: cannot read ({e.strerror or e})"))
-        for f, fs in sorted(found, key=lambda t: str(t[0])):
-            add(f, fs)
-    return files, errors
 
 
 @dataclass(frozen=True)
@@ -205,8 +132,6 @@ class _Job:
 
 def _one(path: str, job: _Job):
     """Read and check one file: ``(path, ImageCheck or None, error line or None)``."""
-    from .readers import ReadError
-
     try:
         fallback = job.backgrounds[0] if job.backgrounds else job.settings.backgrounds[0]
         reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius)
@@ -223,11 +148,6 @@ def _one(path: str, job: _Job):
 def _warm() -> None:
     """Import and prime the heavy parts once, before worker processes fork."""
     from PIL import Image  # noqa: F401
-
-    from .config import Settings
-    from .judge import check_palette
-    from .readers import raster, svg  # noqa: F401
-    from .color import make_palette
 
     check_palette(make_palette([("#1f6f8b", None, False), ("#d9a23b", None, False)]), Settings())
 
@@ -252,8 +172,6 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
     :param progress: called as ``progress(done, total)`` after each file.
     :returns: a :class:`ScanReport`; files that could not be read are in ``errors``.
     """
-    from .config import Settings
-
     if isinstance(paths, (str, os.PathLike)):
         paths = [paths]
     settings = settings or Settings()
@@ -311,10 +229,6 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
 
     :param dpi: resolution of the rendering (default: the figure's own).
     """
-    import io
-
-    from .readers.raster import counts_from_image, open_image_bytes
-
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=dpi or fig.dpi)
     label = "<figure>"
@@ -324,6 +238,6 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
     finally:
         im.close()
     fallback = backgrounds[0] if backgrounds else (settings.backgrounds[0] if settings else None)
-    reading = extract(counts, _rgb(fallback), source=label, min_share=min_share, merge_radius=merge_radius)
+    reading = extract(counts, background_rgb(fallback), source=label, min_share=min_share, merge_radius=merge_radius)
     return check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
                        include_neutrals=include_neutrals)

@@ -16,6 +16,7 @@ import json
 from pathlib import Path
 
 from ..color import ColorError, Palette, make_palette
+from .files import read_text_file
 
 
 def _entry(item, where: str):
@@ -56,8 +57,6 @@ def _components(value: dict, where: str) -> str:
 
 
 def read(path: Path, background) -> Palette:
-    from . import read_text_file
-
     try:
         data = json.loads(read_text_file(path))
     except json.JSONDecodeError as e:

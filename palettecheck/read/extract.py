@@ -36,17 +36,15 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .color import Palette, Swatch, to_hex
-from .perceive import to_ucs
-from .scale import SCALE_MIN_COLORS, _continuous, _sample_path, _segment_distance
-from .scale import ramp_order as ramp_order
+from ..color import Palette, Swatch, to_hex
+from ..perceive.ucs import to_ucs
+from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
 
 __all__ = [
     "ColorCounts",
     "ChartColors",
     "ChartPalette",
     "extract",
-    "ramp_order",
     "DEFAULT_MERGE_RADIUS",
     "DEFAULT_MIN_SHARE",
     "NEUTRAL_CHROMA",
@@ -275,7 +273,7 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
 
             lesser = np.minimum(bound(pi), bound(pj))
             weak = w[c] <= BLEND_SHARE_RATIO * lesser
-            hit = (_segment_distance(rgb[c], rgb[pi], rgb[pj]) <= tol) & (edgy | weak)
+            hit = (segment_distance(rgb[c], rgb[pi], rgb[pj]) <= tol) & (edgy | weak)
             if lossy:  # halved colour resolution: along edges, a thin seam at most
                 seam = edgy | (w[c] <= 0.1 * lesser)
                 hit |= seam & (_parallelogram_distance(rgb[c], rgb[pi], rgb[pj]) <= tol)
@@ -360,16 +358,16 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     outline = np.asarray([k for k in range(len(seeds)) if g_chroma[k] < NEUTRAL_CHROMA
                           and gflat[k] >= 0.5 * gw[k] and (k == 0 or share[k] >= PARENT_MIN_SHARE)], dtype=int)
     scale_terms = dict(neutral=NEUTRAL_CHROMA, blend_tol=BLEND_TOLERANCE[False])
-    found = _continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius, g_rgb, outline, **scale_terms)
+    found = find_continuous(g_jab, gflat, g_chroma, 0, vivid, merge_radius, g_rgb, outline, **scale_terms)
     if found is None and len(vivid) >= SCALE_MIN_COLORS // 2:  # a diverging scale with a grey middle
-        found = _continuous(g_jab, gflat, g_chroma, 0, vivid + grey, merge_radius, g_rgb, outline,
+        found = find_continuous(g_jab, gflat, g_chroma, 0, vivid + grey, merge_radius, g_rgb, outline,
                             **scale_terms)
     if found is None and len(vivid) < SCALE_MIN_COLORS:  # a grey scale
-        found = _continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius,
+        found = find_continuous(g_jab, gflat, np.full(len(gw), NEUTRAL_CHROMA), 0, grey, merge_radius,
                             **scale_terms)
     if found is not None:
         path, along = found
-        picked, pshare, kind = _sample_path(g_jab, path, along, g_jab[0])
+        picked, pshare, kind = sample_path(g_jab, path, along, g_jab[0])
         colors = tuple((to_hex(g_rgb[k]), float(s / plot)) for k, s in zip(picked, pshare))
         on_path = set(int(k) for k in path)
         neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)

@@ -6,7 +6,7 @@ a WCAG contrast ratio against every background, and always the sRGB gamut) and w
 to maximise (:class:`Goal`). :func:`search` returns the best palette it found.
 
 Every distance is the one ``check`` measures: ΔE' in CAM02-UCS [Luo2006] between
-colours simulated for each vision and measured by :func:`palettecheck.checks.seen`
+colours simulated for each vision and measured by :func:`palettecheck.perceive.palette.perceive_colors`
 (the settings' severity, CVD model and viewing conditions), on colours rounded to
 ``#rrggbb``. So a palette the search scores as passing is scored the same by
 :func:`palettecheck.judge.check_palette`.
@@ -41,10 +41,11 @@ from functools import lru_cache
 
 import numpy as np
 
-from .checks import pair_indices, seen
-from .color import parse_color, to_hex
-from .config import Settings
-from .perceive import contrast_ratio, from_ucs
+from ..color import parse_color, to_hex
+from ..config import Settings
+from ..perceive.palette import pair_indices, perceive_colors
+from ..perceive.ucs import from_ucs
+from ..perceive.wcag import contrast_ratio
 
 __all__ = ["Region", "Goal", "Problem", "Solution", "search", "measure", "movement", "pair_mask",
            "candidate_pool", "GRID_LEVELS"]
@@ -200,7 +201,7 @@ class Problem:
         self.grey_idx = self.visions.index("achromatopsia") if soft else None
         self.backgrounds = np.array([parse_color(b)[0] for b in s.backgrounds], dtype=float)
         self.origin_jab = (None if self.origin is None
-                           else seen(np.asarray(self.origin, dtype=float), s, ("normal",))[0])
+                           else perceive_colors(np.asarray(self.origin, dtype=float), s, ("normal",))[0])
 
     @property
     def k(self) -> int:
@@ -210,16 +211,16 @@ class Problem:
     def n(self) -> int:
         return self.k + self.n_free
 
-    def see(self, rgb255) -> "Seen":
+    def candidates(self, rgb255) -> "Candidates":
         """Colours (``(..., 3)`` sRGB 0-255) under every vision the search uses."""
         rgb = np.asarray(rgb255, dtype=float)
-        u = seen(rgb, self.settings, self.visions)
+        u = perceive_colors(rgb, self.settings, self.visions)
         c = contrast_ratio(rgb[..., None, :], self.backgrounds)
-        return Seen(rgb, u, c)
+        return Candidates(rgb, u, c)
 
 
 @dataclass
-class Seen:
+class Candidates:
     rgb: np.ndarray  #: (..., 3) sRGB 0-255
     ucs: np.ndarray  #: (V, ..., 3) J'a'b' per vision of the problem (vision 0 is normal)
     contrast: np.ndarray  #: (..., m) WCAG ratio against each background
@@ -228,8 +229,8 @@ class Seen:
     def jab(self) -> np.ndarray:
         return self.ucs[0]
 
-    def take(self, idx) -> "Seen":
-        return Seen(self.rgb[idx], self.ucs[:, idx], self.contrast[idx])
+    def take(self, idx) -> "Candidates":
+        return Candidates(self.rgb[idx], self.ucs[:, idx], self.contrast[idx])
 
     def __len__(self) -> int:
         return len(self.rgb)
@@ -253,23 +254,23 @@ class Solution:
 
 
 @lru_cache(maxsize=8)
-def _grid_seen(levels: int, visions: tuple, severity: float, cvd_model: str, viewing):
+def _grid_perceived(levels: int, visions: tuple, severity: float, cvd_model: str, viewing):
     v = np.round(np.linspace(0.0, 255.0, levels))
     rgb = np.stack(np.meshgrid(v, v, v, indexing="ij"), axis=-1).reshape(-1, 3)
     how = Settings(severity=severity, cvd_model=cvd_model, L_A=viewing.L_A, Y_b=viewing.Y_b,
                    surround=viewing.surround)
-    u = seen(rgb, how, visions)
+    u = perceive_colors(rgb, how, visions)
     u.setflags(write=False)
     return rgb, u
 
 
-def candidate_pool(problem: Problem, levels: int = GRID_LEVELS) -> Seen:
+def candidate_pool(problem: Problem, levels: int = GRID_LEVELS) -> Candidates:
     """The grid colours the region allows, seen under every vision of the problem."""
     s = problem.settings
-    rgb, u = _grid_seen(levels, problem.visions, s.severity, s.cvd_model, s.viewing)
+    rgb, u = _grid_perceived(levels, problem.visions, s.severity, s.cvd_model, s.viewing)
     c = contrast_ratio(rgb[:, None, :], problem.backgrounds)
     keep = problem.region.allows(u[0], c)
-    return Seen(rgb[keep], u[:, keep], c[keep])
+    return Candidates(rgb[keep], u[:, keep], c[keep])
 
 
 def _softmin(d: np.ndarray, t: float) -> float:
@@ -287,18 +288,18 @@ def _dist(a: np.ndarray, b: np.ndarray) -> np.ndarray:
 class _State:
     """A palette being improved, with its pair matrices."""
 
-    def __init__(self, problem: Problem, seen: Seen):
+    def __init__(self, problem: Problem, current: Candidates):
         self.p = problem
-        self.seen = seen
+        self.current = current
         self.refresh()
 
     def refresh(self):
-        p, u = self.p, self.seen.ucs
+        p, u = self.p, self.current.ucs
         d = _dist(u, u)
         self.dh = d[p.hard_idx].min(axis=0)
         self.dg = d[p.grey_idx] if p.grey_idx is not None else None
         self.move = (np.zeros(p.n_free) if p.origin_jab is None
-                     else movement(p.origin_jab, self.seen.jab[p.k:], p.goal.hue_weight))
+                     else movement(p.origin_jab, self.current.jab[p.k:], p.goal.hue_weight))
         self.value = self._value()
 
     def _value(self) -> float:
@@ -312,23 +313,23 @@ class _State:
             v += float(g.pair_terms(d, None if self.dg is None else self.dg[iu]))
         return v
 
-    def set(self, slot: int, cands: Seen, c: int):
-        self.seen = Seen(self.seen.rgb.copy(), self.seen.ucs.copy(), self.seen.contrast.copy())
-        self.seen.rgb[slot] = cands.rgb[c]
-        self.seen.ucs[:, slot] = cands.ucs[:, c]
-        self.seen.contrast[slot] = cands.contrast[c]
+    def set(self, slot: int, cands: Candidates, c: int):
+        self.current = Candidates(self.current.rgb.copy(), self.current.ucs.copy(), self.current.contrast.copy())
+        self.current.rgb[slot] = cands.rgb[c]
+        self.current.ucs[:, slot] = cands.ucs[:, c]
+        self.current.contrast[slot] = cands.contrast[c]
         self.refresh()
 
-    def to_palette(self, cands: Seen, slots=None) -> tuple[np.ndarray, np.ndarray | None]:
+    def to_palette(self, cands: Candidates, slots=None) -> tuple[np.ndarray, np.ndarray | None]:
         """Distances from candidates to palette colours: hard ``(N, s)`` and grey (or None)."""
         p = self.p
-        u = self.seen.ucs if slots is None else self.seen.ucs[:, slots]
+        u = self.current.ucs if slots is None else self.current.ucs[:, slots]
         idx = p.hard_idx + ([p.grey_idx] if p.grey_idx is not None else [])
         d = _dist(cands.ucs[idx], u[idx])
         nh = len(p.hard_idx)
         return d[:nh].min(axis=0), (d[nh] if p.grey_idx is not None else None)
 
-    def score_slot(self, slot: int, cands: Seen, dist=None) -> np.ndarray:
+    def score_slot(self, slot: int, cands: Candidates, dist=None) -> np.ndarray:
         """Goal value of the palette with ``slot`` replaced by each candidate: ``(N,)``.
 
         :param dist: ``(hard, grey)`` distances from the candidates to every palette
@@ -365,7 +366,7 @@ class _State:
         return val
 
 
-def _ascend(state: _State, pool: Seen, rng, counter: list) -> _State:
+def _ascend(state: _State, pool: Candidates, rng, counter: list) -> _State:
     p = state.p
     dh, dg = state.to_palette(pool)  # (N, n): kept up to date column by column
     for _ in range(_MAX_SWEEPS):
@@ -395,10 +396,10 @@ def _ball(rng, center: np.ndarray, radius: float, count: int) -> np.ndarray:
 
 def _ball_candidates(state: _State, rng, radius: float) -> dict:
     """For every free slot, in-gamut ``#rrggbb`` candidates sampled in a CAM02-UCS ball
-    around its colour and allowed by the region, seen in one batch: slot -> Seen."""
+    around its colour and allowed by the region, seen in one batch: slot -> Candidates."""
     p = state.p
     slots = np.arange(p.k, p.n)
-    pts = np.concatenate([_ball(rng, state.seen.jab[i], radius, _POLISH_SAMPLES) for i in slots])
+    pts = np.concatenate([_ball(rng, state.current.jab[i], radius, _POLISH_SAMPLES) for i in slots])
     owner = np.repeat(slots, _POLISH_SAMPLES)
     with np.errstate(invalid="ignore"):  # NaN far outside the gamut: dropped here
         rgb = from_ucs(pts, p.settings.viewing)
@@ -406,11 +407,11 @@ def _ball_candidates(state: _State, rng, radius: float) -> dict:
     rgb, owner = np.round(rgb[ok]), owner[ok]
     if not len(rgb):
         return {}
-    seen_all = p.see(rgb)
+    seen_all = p.candidates(rgb)
     allowed = p.region.allows(seen_all.jab, seen_all.contrast)
     out = {}
     for i in slots:
-        idx = np.flatnonzero((owner == i) & allowed & np.any(rgb != state.seen.rgb[i], axis=1))
+        idx = np.flatnonzero((owner == i) & allowed & np.any(rgb != state.current.rgb[i], axis=1))
         if len(idx):
             out[int(i)] = seen_all.take(idx)
     return out
@@ -437,9 +438,9 @@ def _polish(state: _State, rng, counter: list) -> _State:
     return state
 
 
-def _greedy_start(problem: Problem, pool: Seen, rng) -> np.ndarray:
+def _greedy_start(problem: Problem, pool: Candidates, rng) -> np.ndarray:
     """Farthest-point start: each new colour as far as possible from those chosen."""
-    chosen_u = [problem.see(problem.fixed).ucs] if problem.k else []
+    chosen_u = [problem.candidates(problem.fixed).ucs] if problem.k else []
     picks = []
     for _ in range(problem.n_free):
         if not chosen_u:
@@ -453,12 +454,12 @@ def _greedy_start(problem: Problem, pool: Seen, rng) -> np.ndarray:
     return pool.rgb[picks]
 
 
-def _palette(problem: Problem, free_rgb: np.ndarray) -> Seen:
-    return problem.see(np.concatenate([problem.fixed, np.asarray(free_rgb, dtype=float).reshape(-1, 3)]))
+def _palette(problem: Problem, free_rgb: np.ndarray) -> Candidates:
+    return problem.candidates(np.concatenate([problem.fixed, np.asarray(free_rgb, dtype=float).reshape(-1, 3)]))
 
 
 def search(problem: Problem, *, seed: int = 0, budget: int = 24, start=None, polish: bool = True,
-           pool: Seen | None = None) -> Solution:
+           pool: Candidates | None = None) -> Solution:
     """Find free colours that maximise ``problem.goal``; deterministic for a seed.
 
     :param budget: number of starts (each is improved until no single colour can
@@ -483,7 +484,7 @@ def search(problem: Problem, *, seed: int = 0, budget: int = 24, start=None, pol
         elif r % 2 == 1 or best is None:
             free = pool.rgb[rng.choice(len(pool), size=m, replace=len(pool) < m)]
         else:
-            free = best.seen.rgb[problem.k:].copy()
+            free = best.current.rgb[problem.k:].copy()
             redo = rng.choice(m, size=max(1, m // 3), replace=False)
             free[redo] = pool.rgb[rng.integers(len(pool), size=len(redo))]
         state = _State(problem, _palette(problem, free))
@@ -496,7 +497,7 @@ def search(problem: Problem, *, seed: int = 0, budget: int = 24, start=None, pol
         finalists.sort(key=lambda st: -st.value)
         seen_hex, top = set(), []
         for st in finalists:
-            key = tuple(sorted(map(tuple, st.seen.rgb[problem.k:])))
+            key = tuple(sorted(map(tuple, st.current.rgb[problem.k:])))
             if key not in seen_hex:
                 seen_hex.add(key)
                 top.append(st)
@@ -512,14 +513,14 @@ def _solution(state: _State, evaluations: int) -> Solution:
     if iu.any():
         d = np.where(iu, state.dh, np.inf)
         i, j = np.unravel_index(np.argmin(d), d.shape)
-        u = state.seen.ucs
+        u = state.current.ucs
         per_vision = np.linalg.norm(u[p.hard_idx, i] - u[p.hard_idx, j], axis=-1)
         worst = (int(i), int(j), p.hard[int(np.argmin(per_vision))])
         low = float(d[i, j])
         viol = float(np.maximum(0.0, p.goal.required - state.dh[iu]).sum())
     else:
         worst, low, viol = None, np.inf, 0.0
-    return Solution(state.seen.rgb.copy(), state.value, low, worst, viol, evaluations)
+    return Solution(state.current.rgb.copy(), state.value, low, worst, viol, evaluations)
 
 
 def measure(problem: Problem, rgb255) -> tuple[np.ndarray, np.ndarray]:
@@ -530,7 +531,7 @@ def measure(problem: Problem, rgb255) -> tuple[np.ndarray, np.ndarray]:
     pals = pals.reshape(-1, problem.n, 3)
     values, lows = [], []
     for pal in pals:
-        st = _State(problem, problem.see(pal))
+        st = _State(problem, problem.candidates(pal))
         values.append(st.value)
         iu = np.triu(problem.pairs)
         lows.append(float(st.dh[iu].min()) if iu.any() else np.inf)

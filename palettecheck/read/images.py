@@ -1,0 +1,105 @@
+"""Chart image files: finding them under folders and reading one chart's colours."""
+
+from __future__ import annotations
+
+import os
+import stat
+from pathlib import Path
+
+from ..color import WHITE, parse_color
+from ..errors import ReadError
+from ..terms import IMAGE_EXTENSIONS
+from . import raster, svg
+from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE, ChartColors, extract
+
+__all__ = ["IMAGE_EXTENSIONS", "background_rgb", "read_image", "find_images"]
+
+
+def background_rgb(colour) -> tuple:
+    """sRGB 0-255 of a background given as a colour string, a triple or None (white)."""
+    if colour is None:
+        return WHITE
+    if isinstance(colour, str):
+        return parse_color(colour)[0]
+    return tuple(float(c) for c in colour)
+
+
+def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
+               merge_radius: float = DEFAULT_MERGE_RADIUS) -> ChartColors:
+    """Read a chart image's colours: data colours with their shares, greys,
+    background and scale.
+
+    :param path: a PNG, JPEG, WebP, GIF, BMP, TIFF or SVG file.
+    :param background: what transparent images are composited over (a colour
+        string or sRGB 0-255 triple; default white).
+    :raises palettecheck.errors.ReadError: one line naming the file and the problem.
+    """
+    path = Path(path)
+    ext = path.suffix.lower()
+    if ext == ".svg":
+        counts = svg.read_counts(path)
+    elif ext in IMAGE_EXTENSIONS:
+        counts = raster.read_counts(path)
+    else:
+        raise ReadError(f"{path}: not a chart image ({', '.join(IMAGE_EXTENSIONS)})")
+    return extract(counts, background_rgb(background), source=str(path),
+                   min_share=min_share, merge_radius=merge_radius)
+
+
+def find_images(paths) -> tuple[list[Path], list[tuple[str, str]]]:
+    """Chart files named or found under folders (walked, following links, each
+    folder once: link loops end), sorted; hidden entries skipped. Returns
+    ``(files, errors)``; a file named explicitly is always kept."""
+    files, errors, seen = [], [], set()
+
+    def add(p: Path, st) -> None:
+        key = (st.st_dev, st.st_ino)
+        if key not in seen:
+            seen.add(key)
+            files.append(p)
+
+    for given in paths:
+        p = Path(given)
+        try:
+            st = p.stat()
+        except FileNotFoundError:
+            errors.append((str(p), f"{p}: no such file or folder"))
+            continue
+        except OSError as e:
+            errors.append((str(p), f"{p}: cannot read ({e.strerror or e})"))
+            continue
+        if not stat.S_ISDIR(st.st_mode):
+            add(p, st)
+            continue
+        folders = {(st.st_dev, st.st_ino)}
+
+        def failed(e: OSError) -> None:
+            where = e.filename or str(p)
+            errors.append((str(where), f"{where}: cannot open folder ({e.strerror or e})"))
+
+        found = []
+        for root, dirs, names in os.walk(p, onerror=failed, followlinks=True):
+            keep = []
+            for d in sorted(dirs):
+                if d.startswith("."):
+                    continue
+                try:
+                    ds = os.stat(os.path.join(root, d))
+                except OSError as e:
+                    failed(e)
+                    continue
+                if (ds.st_dev, ds.st_ino) not in folders:
+                    folders.add((ds.st_dev, ds.st_ino))
+                    keep.append(d)
+            dirs[:] = keep
+            for name in names:
+                if name.startswith(".") or os.path.splitext(name)[1].lower() not in IMAGE_EXTENSIONS:
+                    continue
+                f = Path(root) / name
+                try:
+                    found.append((f, f.stat()))
+                except OSError as e:
+                    errors.append((str(f), f"{f}: cannot read ({e.strerror or e})"))
+        for f, fs in sorted(found, key=lambda t: str(t[0])):
+            add(f, fs)
+    return files, errors

@@ -1,0 +1,63 @@
+"""The contract's words: every name a user, a script or a report relies on.
+
+One place for the kinds, marks, visions, models and formats that the command line,
+the settings, the checks and the reports share. Plain data, no numpy, so the command
+line can build its options without loading the colour machinery.
+"""
+
+from __future__ import annotations
+
+#: palettecheck's version, written into every report.
+VERSION = "0.1.0"
+
+__all__ = [
+    "VERSION", "KINDS", "RAMP_KINDS", "MARKS", "VISIONS", "CVD_VISIONS", "DEFAULT_VISIONS", "GREY_VISION",
+    "VISION_LABELS", "VISION_TITLES", "CVD_MODELS", "SURROUNDS", "ERROR", "WARNING", "INFO",
+    "SEVERITIES", "SEVERITY_TITLES", "REPORT_FORMATS", "REPORT_EXTENSIONS", "GENERATE_FORMATS",
+    "GENERATE_EXTENSIONS", "RASTER_EXTENSIONS", "IMAGE_EXTENSIONS",
+]
+
+#: Data scales a palette can encode; the first is the default.
+KINDS = ("categorical", "sequential", "diverging")
+#: The ordered kinds, built as ramps.
+RAMP_KINDS = ("sequential", "diverging")
+#: Mark sizes a check knows by name; the first is the default.
+MARKS = ("area", "line", "point", "text")
+
+#: Every vision palettecheck simulates, in report order.
+VISIONS = ("normal", "protanopia", "deuteranopia", "tritanopia", "achromatopsia")
+#: The three dichromacies, simulated by one of :data:`CVD_MODELS`.
+CVD_VISIONS = ("protanopia", "deuteranopia", "tritanopia")
+#: The visions a check compares pairs under unless told otherwise.
+DEFAULT_VISIONS = ("normal", *CVD_VISIONS)
+#: The grey view (checked by its own check, ``grey``).
+GREY_VISION = "achromatopsia"
+#: A vision's name inside a sentence ("ΔE' deuteranopia 3.3").
+VISION_LABELS = {"normal": "normal vision", "protanopia": "protanopia", "deuteranopia": "deuteranopia",
+                 "tritanopia": "tritanopia", "achromatopsia": "grey (achromatic) view"}
+#: A vision's name as a heading (HTML strips, simulated images).
+VISION_TITLES = {"normal": "normal vision (as given)", "protanopia": "protanopia (simulated)",
+                 "deuteranopia": "deuteranopia (simulated)", "tritanopia": "tritanopia (simulated)",
+                 "achromatopsia": "grey: a grey print, or no colour vision"}
+
+#: CVD simulation methods; the first is the default (Machado et al. 2009, Brettel et al. 1997).
+CVD_MODELS = ("machado", "brettel")
+#: CIECAM02 surrounds (CIE 159:2004).
+SURROUNDS = ("average", "dim", "dark")
+
+ERROR, WARNING, INFO = "error", "warning", "info"
+#: Finding severities, most serious first.
+SEVERITIES = (ERROR, WARNING, INFO)
+#: Section title of each severity in the documents.
+SEVERITY_TITLES = {ERROR: "Errors", WARNING: "Warnings", INFO: "Notes"}
+
+#: Report formats of ``check``, ``scan`` and ``fix``, with the file suffix of each.
+REPORT_EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html"}
+REPORT_FORMATS = tuple(REPORT_EXTENSIONS)
+#: Output formats of ``generate``, with the file suffix of each.
+GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py"}
+GENERATE_FORMATS = tuple(GENERATE_EXTENSIONS)
+
+#: Chart image files that ``scan`` reads: raster formats (Pillow) and SVG.
+RASTER_EXTENSIONS = (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff")
+IMAGE_EXTENSIONS = (*RASTER_EXTENSIONS, ".svg")
