@@ -249,8 +249,9 @@ def fix_cmd(sources, keep, fmt, output, **options):
     """Suggest the smallest colour changes that make a palette pass. The repaired
     palette is written in the format it came in (to --output, or stdout) and the
     moves are explained on stderr; --format json gives everything as one object."""
-    from .read import read_sources, write_back
+    from .read import read_sources
     from .read.images import background_rgb
+    from .read.rewrite import write_back
     from .repair import repair
     from .report import render_repair
     from .report.write import refuse_overwrite

@@ -1,7 +1,7 @@
 """External check values for the perception, vision and colour-parsing tests.
 
-One module, one source comment per block. Each comment carries the letter of
-/work/shared/REFERENCES.md:
+One module, one source comment per block. Each comment carries a letter
+(defined in docs/references.md, which lists every source):
 
 - **V**: read in the cited text, or in a library that quotes it;
 - **C**: computed with colorspacious 1.1.2, colour-science 0.4.7 and coloraide 8.13.1,
@@ -28,12 +28,12 @@ TOL_UCS_COLOUR_ROW = 1e-5
 #: to_ucs against colour's sRGB -> XYZ -> CAM02-UCS. colour derives its sRGB matrix
 #: from the primaries and uses white (95.0456, 100, 108.9058); colorspacious uses the
 #: four-decimal IEC matrix and (95.047, 100, 108.883). Measured largest gap over 300
-#: seeded colours: 0.0095 (C). REFERENCES.md section 2 allows up to ~0.015.
+#: seeded colours: 0.0095 (C). Luo, Cui & Li 2006 and the colorspacious/colour/coloraide CAM02-UCS code allows up to ~0.015.
 TOL_UCS_VS_COLOUR = 0.015
 #: The CIECAM02 / CAM02-UCS step alone, fed the same XYZ: colour equals colorspacious
 #: to 3e-13 (measured, C).
 TOL_CAM_SAME_XYZ = 1e-9
-#: ΔE' against coloraide's "cam02" (REFERENCES.md section 2). Measured largest gap over
+#: ΔE' against coloraide's "cam02" (Luo, Cui & Li 2006 and the colorspacious/colour/coloraide CAM02-UCS code). Measured largest gap over
 #: 200 seeded pairs: 0.013 (C).
 TOL_DELTA_E_VS_COLORAIDE = 0.02
 #: sRGB transfer gold values are printed to 15 significant digits.
@@ -91,7 +91,7 @@ def luo2006_jab(J: float, M: float, h: float, c1: float = 0.007, c2: float = 0.0
     return jp, mp * math.cos(math.radians(h)), mp * math.sin(math.radians(h))
 
 
-# silver: colorspacious JMh -> CAM02-UCS, colour agrees (REFERENCES.md section 2).
+# silver: colorspacious JMh -> CAM02-UCS, colour agrees (Luo, Cui & Li 2006 and the colorspacious/colour/coloraide CAM02-UCS code).
 UCS_FROM_JMH_SILVER = [
     ((50.0, 20.0, 10.0), (62.96296296, 16.22742674, 2.86133316)),
     ((10.0, 60.0, 100.0), (15.88785047, -6.56546789, 37.23461867)),
@@ -124,7 +124,7 @@ SRGB1_TO_LINEAR_GOLD = [
 # 4 WCAG 2.x contrast ratio.
 # V: w3c/wcag at 58080bd (guidelines/terms/20/, understanding 1.4.11, G207, G223) for
 #    the "text" figure; C: the ratio computed by the WCAG formula, to four decimals,
-#    from the REFERENCES.md section 4 table (coloraide's wcag21 agrees within 1e-3).
+#    from the WCAG 2.x, w3c/wcag repository table (coloraide's wcag21 agrees within 1e-3).
 # (pair, computed C, W3C text V or None)
 # ---------------------------------------------------------------------------------------
 WCAG_CONTRAST = [
@@ -154,7 +154,7 @@ COLORAIDE_CVD_NAME = {"protanopia": "protan", "deuteranopia": "deutan", "tritano
 
 # ---------------------------------------------------------------------------------------
 # 9 Brettel, Viénot & Mollon 1997 anchors.
-# M: 475/575 nm (protan, deutan), 485/660 nm (tritan), REFERENCES.md section 9.
+# M: 475/575 nm (protan, deutan), 485/660 nm (tritan), Brettel, Viénot & Mollon 1997.
 # C: coloraide 8.13.1's precomputed half-planes (filters/cvd.py), intersected with the
 #    CIE 1931 locus through its own sRGB matrix, cross it at 475.0, 575.0, 485.0 and
 #    658.5 nm, which supports the first three and puts the fourth within 1.5 nm.

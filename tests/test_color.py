@@ -1,7 +1,7 @@
 """palettecheck.color: CSS colour strings and palettes.
 
 Syntax follows CSS Color Module Level 4 (hex notation section 5.2, rgb() 5.1,
-hsl() 7, named colours 6.1). Letters V/C/M follow /work/shared/REFERENCES.md.
+hsl() 7, named colours 6.1). Letters V/C/M are defined in docs/references.md.
 """
 
 import math

@@ -84,13 +84,25 @@ def test_even_diverging_says_its_middle_pair_merges_in_grey():
     assert gen.passed and any("odd -n" in note for note in gen.notes)
 
 
+def test_ramp_metrics_never_guesses_the_scale():
+    """Near-black colours on the 0-255 scale stay near black. (External check: the
+    CAM02-UCS J' of sRGB (1, 1, 1) is 1.9 under colorspacious's sRGB viewing
+    conditions -- colorspacious 1.1.2, computed, not published.)"""
+    from colorspacious import cspace_convert
+
+    m = ramp_metrics(np.array([[0.0, 0.0, 0.0], [0.5, 0.5, 0.5], [1.0, 1.0, 1.0]]))
+    expected = cspace_convert([[0.0, 0.0, 0.0], [0.5, 0.5, 0.5], [1.0, 1.0, 1.0]], "sRGB255", "CAM02-UCS")[:, 0]
+    assert np.allclose(m["lightness"], expected, atol=1e-9)
+    assert m["lightness"][-1] < 2.5
+
+
 def test_viridis_is_confirmed_sequential_by_the_same_checker():
     """External check. matplotlib's documentation ("Choosing Colormaps in Matplotlib")
     presents viridis as perceptually uniform sequential, designed with monotonic
     lightness in CAM02-UCS (the viscm tool). Our checker agrees: J' rises strictly
     along all 256 entries (silver: step CV 1.2 % over 256 entries, 2.0 % over 9
     samples), and ``check`` finds no order or uniformity problem in 9 samples."""
-    rgb = matplotlib.colormaps["viridis"](np.linspace(0, 1, 256))[:, :3]
+    rgb = matplotlib.colormaps["viridis"](np.linspace(0, 1, 256))[:, :3] * 255.0
     m = ramp_metrics(rgb)
     assert m["monotonic"] == [True] and np.all(np.diff(m["lightness"]) > 0)
     assert m["cv"][0] <= 0.03
@@ -103,10 +115,10 @@ def test_viridis_is_confirmed_sequential_by_the_same_checker():
 def test_colormap_is_continuous_monotonic_and_registers():
     cmap = colormap("sequential", ["#2f8a4f"], name="pc-test-green", register=True)
     assert cmap.N == 256 and matplotlib.colormaps["pc-test-green"].N == 256
-    m = ramp_metrics(cmap(np.linspace(0, 1, 256))[:, :3])
+    m = ramp_metrics(cmap(np.linspace(0, 1, 256))[:, :3] * 255.0)
     assert m["monotonic"] == [True] and m["cv"][0] <= 0.03
     div = diverging(9).colormap()
-    assert ramp_metrics(div(np.linspace(0, 1, 255))[:, :3], "diverging")["monotonic"] == [True, True]
+    assert ramp_metrics(div(np.linspace(0, 1, 255))[:, :3] * 255.0, "diverging")["monotonic"] == [True, True]
     with pytest.raises(GenerateError):
         colormap("categorical")
 

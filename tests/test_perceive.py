@@ -1,6 +1,6 @@
 """palettecheck.perceive against published values and other colour libraries.
 
-Letters V/C/M follow /work/shared/REFERENCES.md (see tests/reference_values.py).
+Letters V/C/M are defined in docs/references.md (see tests/reference_values.py).
 """
 
 import numpy as np
@@ -20,7 +20,7 @@ except ImportError:
     import reference_values as ref
 
 SEED = 20240601
-ATTRS = ("J", "C", "h", "Q", "M", "s")  # H is left out of library cross-checks (REFERENCES §1)
+ATTRS = ("J", "C", "h", "Q", "M", "s")  # H is left out of library cross-checks (CIE 159:2004 Table 4)
 
 
 def _space(viewing):
@@ -102,7 +102,7 @@ def test_ucs_coefficients_are_luo2006_ucs():
     ],
 )
 def test_ucs_from_xyz_rows(white, expected, tol):
-    """REFERENCES §2 XYZ rows through the colorspacious space built from our Viewing."""
+    """Luo, Cui & Li 2006 and the colorspacious/colour/coloraide CAM02-UCS code XYZ rows through the colorspacious space built from our Viewing."""
     viewing = Viewing(XYZ100_w=white)
     got = cspace_convert(np.array(ref.UCS_XYZ1) * 100.0, "XYZ100", P._ucs_space(viewing))
     np.testing.assert_allclose(got, expected, atol=tol)
@@ -137,7 +137,7 @@ def test_to_ucs_against_colour_random():
 
 
 def test_delta_e_reference_pair():
-    """C: REFERENCES §2 pair, colorspacious figure to four decimals; the others within 0.02."""
+    """C: Luo, Cui & Li 2006 and the colorspacious/colour/coloraide CAM02-UCS code pair, colorspacious figure to four decimals; the others within 0.02."""
     a, b = (P.to_ucs(c) for c in ref.DELTA_E_PAIR)
     d = float(P.delta_e(a, b))
     assert d == pytest.approx(ref.DELTA_E_PAIR_CS, abs=1e-4)

@@ -1,6 +1,6 @@
 """palettecheck.perceive.vision against the published CVD matrices and other colour libraries.
 
-Letters V/C/M follow /work/shared/REFERENCES.md (see tests/reference_values.py).
+Letters V/C/M are defined in docs/references.md (see tests/reference_values.py).
 Comparisons are made in linear sRGB 0-1, where the models are defined.
 """
 
@@ -46,7 +46,7 @@ def _colour_machado(vision, severity):
 
     with warnings.catch_warnings():
         # colour warns, on every call, that its tritanomaly follows the shift paradigm
-        # (an approximation). Known and documented in REFERENCES §5; ignore only that.
+        # (an approximation). Known and documented in Machado, Oliveira & Fernandes 2009; ignore only that.
         warnings.filterwarnings("ignore", message=".*shift paradigm", category=ColourUsageWarning)
         return colour.blindness.matrix_cvd_Machado2009(ref.COLOUR_CVD_NAME[vision], severity)
 
@@ -75,7 +75,7 @@ def test_machado_published_matrix(vision):
 @pytest.mark.parametrize("vision", CVD)
 @pytest.mark.parametrize("severity", [1.0, 0.5, 0.3])
 def test_machado_against_colour(vision, severity):
-    """C: colour's matrix_cvd_Machado2009, at multiples of 0.1 only (REFERENCES §5 caveat)."""
+    """C: colour's matrix_cvd_Machado2009, at multiples of 0.1 only (Machado, Oliveira & Fernandes 2009 caveat)."""
     rgb = _colours()
     matrix = _colour_machado(vision, severity)
     if severity == 1.0:  # V: colour carries the published table
@@ -276,7 +276,7 @@ def test_brettel_protan_deutan_against_coloraide(vision):
 
 
 def test_brettel_differs_from_machado_for_tritan():
-    """C (REFERENCES §9): the two tritan models differ, median ~0.09 in linear RGB."""
+    """C (Brettel, Viénot & Mollon 1997): the two tritan models differ, median ~0.09 in linear RGB."""
     lin_m = _linear(V.simulate(_colours(), "tritanopia"))
     lin_b = _linear(V.simulate(_colours(), "tritanopia", method="brettel"))
     assert 0.03 < np.median(np.abs(lin_m - lin_b).max(axis=1)) < 0.3

@@ -206,14 +206,14 @@ def round_even(rgb: np.ndarray, arms_idx: list[list[int]], viewing) -> np.ndarra
     return out
 
 
-def ramp_metrics(colors, kind: str = "sequential", viewing=SRGB_VIEWING) -> dict:
+def ramp_metrics(srgb255, kind: str = "sequential", viewing=SRGB_VIEWING) -> dict:
     """J' monotonic per arm, coefficient of variation of the ΔE' steps per arm (normal
-    vision), and gamut, for ``#rrggbb`` strings or ``(n, 3)`` sRGB 0-255 / 0-1 floats."""
-    if len(colors) and isinstance(colors[0], str):
-        rgb = np.array([parse_color(c)[0] for c in colors], dtype=float)
+    vision), and gamut, for ``#rrggbb`` strings or an ``(n, 3)`` array on the sRGB
+    0-255 scale (never guessed: multiply 0-1 values by 255 first)."""
+    if len(srgb255) and isinstance(srgb255[0], str):
+        rgb = np.array([parse_color(c)[0] for c in srgb255], dtype=float)
     else:
-        rgb = np.asarray(colors, dtype=float)
-        rgb = rgb * 255.0 if rgb.max() <= 1.0 else rgb
+        rgb = np.asarray(srgb255, dtype=float).reshape(-1, 3)
     n = len(rgb)
     u = to_ucs(rgb, viewing)
     if kind == "diverging":

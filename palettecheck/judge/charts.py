@@ -30,7 +30,6 @@ from ..read.extract import (
     extract,
 )
 from ..read.images import background_rgb, find_images, read_image
-from ..read.raster import counts_from_image, open_image_bytes
 from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
@@ -229,6 +228,9 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
 
     :param dpi: resolution of the rendering (default: the figure's own).
     """
+    # Pillow's side, loaded when used
+    from ..read.raster import counts_from_image, open_image_bytes
+
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=dpi or fig.dpi)
     label = "<figure>"

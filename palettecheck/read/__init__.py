@@ -1,4 +1,5 @@
-"""Read: sources in, palettes and chart colours out; repaired palettes written back.
+"""Read: sources in, palettes and chart colours out (repaired palettes are written
+back by :mod:`palettecheck.read.rewrite`).
 
 One module per source kind turns a file into a Palette.
 
@@ -16,10 +17,9 @@ from ..color import WHITE, Palette, make_palette
 from ..errors import ColorError, ReadError
 from .files import MAX_FILE_BYTES as MAX_FILE_BYTES
 from .images import IMAGE_EXTENSIONS, find_images, read_image
-from .rewrite import palette_text, rewrite_source
 
 __all__ = ["ReadError", "read_source", "read_sources", "READERS", "MAX_FILE_BYTES", "IMAGE_EXTENSIONS",
-           "read_image", "find_images", "write_back"]
+           "read_image", "find_images"]
 
 
 #: extension -> module in this package with a ``read(path, background) -> Palette``
@@ -70,17 +70,3 @@ def read_sources(sources, background=WHITE) -> Palette:
         out = out + p
     return out
 
-
-def write_back(sources, palette: Palette, hexes) -> tuple[str, str]:
-    """A repaired palette as a file: ``(text, suggested file name)``.
-
-    One palette file as the only SOURCE is rewritten in its own format, only its
-    colours changed (comments, names and other properties kept); anything else
-    becomes a text palette. ``hexes`` are the new colours, in palette order.
-    """
-    files = [Path(s) for s in sources if Path(s).suffix.lower() in READERS and Path(s).is_file()]
-    single = files[0] if len(sources) == 1 and len(files) == 1 else None
-    fixed = palette.with_hexes(hexes)
-    if single is None:
-        return palette_text(fixed, "text"), "palette-fixed.txt"
-    return rewrite_source(single, palette, fixed), f"{single.stem}-fixed{single.suffix}"

@@ -9,7 +9,6 @@ from pathlib import Path
 from ..color import WHITE, parse_color
 from ..errors import ReadError
 from ..terms import IMAGE_EXTENSIONS
-from . import raster, svg
 from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE, ChartColors, extract
 
 __all__ = ["IMAGE_EXTENSIONS", "background_rgb", "read_image", "find_images"]
@@ -36,13 +35,14 @@ def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
     """
     path = Path(path)
     ext = path.suffix.lower()
+    # each image reader loads only when its kind of file is read (start-up time)
     if ext == ".svg":
-        counts = svg.read_counts(path)
+        from .svg import read_counts
     elif ext in IMAGE_EXTENSIONS:
-        counts = raster.read_counts(path)
+        from .raster import read_counts
     else:
         raise ReadError(f"{path}: not a chart image ({', '.join(IMAGE_EXTENSIONS)})")
-    return extract(counts, background_rgb(background), source=str(path),
+    return extract(read_counts(path), background_rgb(background), source=str(path),
                    min_share=min_share, merge_radius=merge_radius)
 
 

@@ -13,10 +13,11 @@ from pathlib import Path
 
 from ..color import Palette, parse_color
 from ..errors import ColorError
+from . import READERS
 from .css import COMMENT, PROPERTY
 from .text import parse_line
 
-__all__ = ["palette_text", "rewrite_source"]
+__all__ = ["palette_text", "rewrite_source", "write_back"]
 
 
 def palette_text(palette: Palette, fmt: str) -> str:
@@ -114,3 +115,18 @@ def rewrite_source(path: Path, old: Palette, new: Palette) -> str:
     if ext in (".json", ".tokens"):
         return _rewrite_json(text, o, n)
     return _rewrite_text(text, o, n)
+
+
+def write_back(sources, palette: Palette, hexes) -> tuple[str, str]:
+    """A repaired palette as a file: ``(text, suggested file name)``.
+
+    One palette file as the only SOURCE is rewritten in its own format, only its
+    colours changed (comments, names and other properties kept); anything else
+    becomes a text palette. ``hexes`` are the new colours, in palette order.
+    """
+    files = [Path(s) for s in sources if Path(s).suffix.lower() in READERS and Path(s).is_file()]
+    single = files[0] if len(sources) == 1 and len(files) == 1 else None
+    fixed = palette.with_hexes(hexes)
+    if single is None:
+        return palette_text(fixed, "text"), "palette-fixed.txt"
+    return rewrite_source(single, palette, fixed), f"{single.stem}-fixed{single.suffix}"

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import json
-from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -11,13 +10,10 @@ from ..terms import GENERATE_FORMATS as FORMATS
 from .facts import CAUTION
 from .text import render_text
 
-if TYPE_CHECKING:
-    from ..generate.result import Generated
-
 __all__ = ["FORMATS", "render_generated"]
 
 
-def _summary(gen: Generated) -> str:
+def _summary(gen) -> str:
     c = gen.check
     verdict = "passes" if gen.passed else "fails"
     if gen.requested is not None and len(gen.colors) < gen.requested:
@@ -26,8 +22,8 @@ def _summary(gen: Generated) -> str:
     return f"score {c.score.value}/100, {verdict} check ({where})"
 
 
-def render_generated(gen: Generated, fmt: str, color: bool = False) -> str:
-    """The palette as ``text`` (palette, then the check report), ``json`` (DESIGN.md:
+def render_generated(gen, fmt: str, color: bool = False) -> str:
+    """A :class:`palettecheck.generate.result.Generated` palette as ``text`` (palette, then the check report), ``json`` (DESIGN.md:
     ``{kind, colors, check, ...}``), ``hex`` (one per line, readable by ``check``),
     ``css`` (custom properties) or ``matplotlib`` (a snippet to paste)."""
     summary = _summary(gen)
