@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 
 from ..terms import ERROR
+from .contract import stamp
 from .facts import CAUTION
 from .text import swatch
 
@@ -13,7 +14,7 @@ __all__ = ["render_fix", "render_fix_json"]
 
 def render_fix_json(repair) -> str:
     """Everything about a repair as one JSON object (DESIGN.md's ``fix`` contract)."""
-    return json.dumps({**repair.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(stamp("fix", {**repair.to_dict(), "caution": CAUTION}), indent=2, ensure_ascii=False) + "\n"
 
 
 def render_fix(repair, color: bool = False) -> str:

@@ -7,6 +7,7 @@ import json
 import numpy as np
 
 from ..terms import GENERATE_FORMATS as FORMATS
+from .contract import stamp
 from .facts import CAUTION
 from .text import render_text
 
@@ -29,7 +30,7 @@ def render_generated(gen, fmt: str, color: bool = False) -> str:
     summary = _summary(gen)
     why = [f"  {line}" for line in gen.explanation]
     if fmt == "json":
-        return json.dumps({**gen.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
+        return json.dumps(stamp("generate", {**gen.to_dict(), "caution": CAUTION}), indent=2, ensure_ascii=False) + "\n"
     if fmt == "hex":
         lines = [f"# {gen.kind} palette from palettecheck: {summary}"]
         lines += [f"# {line}" for line in gen.explanation]

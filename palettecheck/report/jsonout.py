@@ -4,13 +4,13 @@ from __future__ import annotations
 
 import json
 
+from .contract import stamp
 from .facts import CAUTION
 
 
 def result_dict(result) -> dict:
-    d = result.to_dict()
-    d["caution"] = CAUTION
-    return d
+    """A check's JSON object: ``$schema``, ``version``, the result, the caution."""
+    return stamp("check", {**result.to_dict(), "caution": CAUTION})
 
 
 def render_json(result) -> str:

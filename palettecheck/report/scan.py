@@ -6,6 +6,7 @@ from __future__ import annotations
 import json
 import shutil
 
+from .contract import stamp
 from .facts import CAUTION, colors_summary, main_problem
 
 __all__ = ["render_table", "render_scan_json", "render_scan_text"]
@@ -44,7 +45,7 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
 
 
 def render_scan_json(report) -> str:
-    return json.dumps({**report.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(stamp("scan", {**report.to_dict(), "caution": CAUTION}), indent=2, ensure_ascii=False) + "\n"
 
 
 def render_scan_text(report, color: bool = False) -> str:
