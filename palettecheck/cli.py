@@ -89,6 +89,19 @@ def common_options(f=None, *, formats=("text", "json"), format_help="Output form
     return f
 
 
+REPORT_HELP = ("Report: text, json, markdown, html (one self-contained page), junit (JUnit XML for CI) "
+               "or sarif (SARIF 2.1.0 for code review).")
+
+
+def baseline_options(f):
+    """--baseline and --write-baseline, for the commands that check."""
+    f = click.option("--write-baseline", type=click.Path(dir_okay=True), default=None, metavar="FILE",
+                     help="Write the errors and warnings found to FILE as accepted (then report as usual).")(f)
+    return click.option("--baseline", type=click.Path(dir_okay=False), default=None, metavar="FILE",
+                        help="Accept the findings listed in FILE (written by --write-baseline): "
+                             "only new problems fail.")(f)
+
+
 def _settings(**options):
     from .config import settings_from
 
@@ -126,9 +139,9 @@ def cli() -> None:
 @click.option("--suggest", is_flag=True,
               help="When the palette fails, work out the smallest repair and list it "
                    "(as palettecheck fix does; takes up to a second or two).")
-@common_options(formats=REPORT_FORMATS,
-                format_help="Report: text, json, markdown, or html (one self-contained page).")
-def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
+@baseline_options
+@common_options(formats=REPORT_FORMATS, format_help=REPORT_HELP)
+def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt, output, **options):
     """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name), a
     palette file (.txt, .json, .tokens, .css) or a chart image (.png, .jpg, .webp,
     .svg: its data colours, checked against its own background too); several
@@ -138,6 +151,14 @@ def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
 
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
     result = check_sources(sources, settings, kind=kind, backgrounds=settings.backgrounds if backgrounds else ())
+    if write_baseline:
+        from .judge.baseline import baseline_entries, baseline_text
+
+        emit(baseline_text(baseline_entries(result)), write_baseline, sources, "palettecheck-baseline.json")
+    if baseline:
+        from .judge.baseline import load_baseline
+
+        result = load_baseline(baseline).apply(result)
     if suggest and not result.passed:
         from .repair import suggestions
 
@@ -158,9 +179,10 @@ def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
               help="ΔE' within which colours count as one (default 3; noise, rounding).")
 @click.option("--include-neutrals", is_flag=True,
               help="Check greys as data colours too (by default they are taken for text, axes, grid).")
-@common_options(formats=REPORT_FORMATS,
-                format_help="Report: text, json, markdown, or html (one self-contained page).")
-def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds, kind, fmt, output, **options):
+@baseline_options
+@common_options(formats=REPORT_FORMATS, format_help=REPORT_HELP)
+def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, baseline, write_baseline, backgrounds, kind,
+             fmt, output, **options):
     """Check the colours of every chart image under PATHS.
 
     Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
@@ -176,6 +198,17 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
                   include_neutrals=include_neutrals, progress=progress,
                   min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
                   merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+    if write_baseline:
+        from .judge.baseline import baseline_entries, baseline_text
+
+        entries = [e for image in report.images for e in baseline_entries(image.result, image.path)]
+        emit(baseline_text(entries), write_baseline, paths, "palettecheck-baseline.json")
+    if baseline:
+        from .judge.baseline import load_baseline
+
+        accepted = load_baseline(baseline)
+        for image in report.images:
+            image.result = accepted.apply(image.result, image.path)
     for _, message in report.errors:
         click.echo(f"palettecheck: {message}", err=True)
     if not report.images and not report.errors:

@@ -7,6 +7,8 @@ line can build its options without loading the colour machinery.
 
 from __future__ import annotations
 
+import hashlib
+
 #: palettecheck's version, written into every report.
 VERSION = "0.1.0"
 
@@ -14,7 +16,7 @@ __all__ = [
     "VERSION", "KINDS", "RAMP_KINDS", "MARKS", "VISIONS", "CVD_VISIONS", "DEFAULT_VISIONS", "GREY_VISION",
     "VISION_LABELS", "VISION_TITLES", "CVD_MODELS", "SURROUNDS", "ERROR", "WARNING", "INFO",
     "SEVERITIES", "SEVERITY_TITLES", "REPORT_FORMATS", "REPORT_EXTENSIONS", "GENERATE_FORMATS",
-    "GENERATE_EXTENSIONS", "RASTER_EXTENSIONS", "IMAGE_EXTENSIONS",
+    "GENERATE_EXTENSIONS", "RASTER_EXTENSIONS", "IMAGE_EXTENSIONS", "finding_id",
 ]
 
 #: Data scales a palette can encode; the first is the default.
@@ -51,8 +53,10 @@ SEVERITIES = (ERROR, WARNING, INFO)
 #: Section title of each severity in the documents.
 SEVERITY_TITLES = {ERROR: "Errors", WARNING: "Warnings", INFO: "Notes"}
 
-#: Report formats of ``check``, ``scan`` and ``fix``, with the file suffix of each.
-REPORT_EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html"}
+#: Report formats of ``check`` and ``scan``, with the file suffix of each: documents
+#: for people, JSON for scripts, JUnit XML for CI dashboards, SARIF for code review.
+REPORT_EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html", "junit": "xml",
+                     "sarif": "sarif"}
 REPORT_FORMATS = tuple(REPORT_EXTENSIONS)
 #: Output formats of ``generate``, with the file suffix of each.
 GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py"}
@@ -61,3 +65,13 @@ GENERATE_FORMATS = tuple(GENERATE_EXTENSIONS)
 #: Chart image files that ``scan`` reads: raster formats (Pillow) and SVG.
 RASTER_EXTENSIONS = (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff")
 IMAGE_EXTENSIONS = (*RASTER_EXTENSIONS, ".svg")
+
+
+def finding_id(check: str, colors, message: str = "") -> str:
+    """A finding's stable id: ``<check>:<hex>+<hex>`` (the colours it names, sorted), so
+    the same problem in the same colours keeps its id whatever its numbers or wording;
+    a finding that names no colour (a note about the input) is told apart by a short
+    hash of its message. Baselines, SARIF fingerprints and JSON ids all use it."""
+    if colors:
+        return f"{check}:{'+'.join(sorted(set(colors)))}"
+    return f"{check}:{hashlib.sha1(message.encode('utf-8', 'replace')).hexdigest()[:10]}"

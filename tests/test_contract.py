@@ -11,8 +11,8 @@ from helpers import draw, save
 from jsonschema import Draft202012Validator
 from referencing import Registry, Resource
 
-from palettecheck.report.contract import SCHEMA_IDS, finding_id, load_schema
-from palettecheck.terms import VERSION
+from palettecheck.report.contract import SCHEMA_IDS, load_schema
+from palettecheck.terms import VERSION, finding_id
 
 REGISTRY = Registry().with_resources(
     (SCHEMA_IDS[k], Resource.from_contents(load_schema(k))) for k in SCHEMA_IDS)
@@ -53,6 +53,12 @@ def test_scan_generate_fix_json_match_their_schemas(invoke, tmp_path):
         assert valid("generate", gen) == [], kind
     fix = json.loads(invoke("fix", str(PALETTES / "kestrel-brand.json"), "--format", "json").stdout)
     assert valid("fix", fix) == [] and fix["moves"]
+
+
+def test_baseline_file_matches_its_schema(invoke, tmp_path):
+    base = tmp_path / "baseline.json"
+    invoke("check", str(PALETTES / "kestrel-brand.json"), "--write-baseline", str(base))
+    assert valid("baseline", json.loads(base.read_text())) == []
 
 
 def test_schema_rejects_a_broken_output(invoke):

@@ -28,6 +28,11 @@ def render(result, fmt: str, color: bool = False) -> str:
         from .html import render_html
 
         return render_html(result)
+    if fmt in ("junit", "sarif"):
+        from . import ci
+
+        checked = [(result.palette.source or "palette", result)]
+        return ci.render_junit(checked) if fmt == "junit" else ci.render_sarif(checked)
     return render_text(result, color=color)
 
 
@@ -45,6 +50,12 @@ def render_scan(report, fmt: str, color: bool = False) -> str:
         from .html import render_scan_html
 
         return render_scan_html(report)
+    if fmt in ("junit", "sarif"):
+        from . import ci
+
+        checked = [(image.path, image.result) for image in report.images]
+        render_ci = ci.render_junit if fmt == "junit" else ci.render_sarif
+        return render_ci(checked, report.errors)
     return render_scan_text(report, color=color)
 
 

@@ -9,24 +9,16 @@ id from run to run whatever its numbers or wording: baselines match on it.
 
 from __future__ import annotations
 
-import hashlib
 import json
 from importlib import resources
 
-from ..terms import VERSION
+from ..terms import VERSION, finding_id
 
-__all__ = ["SCHEMA_IDS", "stamp", "finding_id", "load_schema"]
+__all__ = ["SCHEMA_IDS", "stamp", "load_schema"]
 
 #: The ``$id`` of each output's schema, and the ``$schema`` of each output.
-SCHEMA_IDS = {kind: f"urn:palettecheck:schema:{kind}:1" for kind in ("check", "scan", "generate", "fix")}
-
-
-def finding_id(check: str, colors, message: str = "") -> str:
-    """A finding's stable id: the check and the colours it names; a finding that names
-    no colour (a note about the input) is told apart by a short hash of its message."""
-    if colors:
-        return f"{check}:{'+'.join(sorted(set(colors)))}"
-    return f"{check}:{hashlib.sha1(message.encode('utf-8', 'replace')).hexdigest()[:10]}"
+SCHEMA_IDS = {kind: f"urn:palettecheck:schema:{kind}:1"
+              for kind in ("check", "scan", "generate", "fix", "baseline")}
 
 
 def _with_ids(check: dict) -> dict:
