@@ -245,7 +245,9 @@ def _progress_bar():
                    "1 turns it off here and in the check (default 3, 4.5 for text).")
 @click.option("--seed", type=int, default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
 @common_options(formats=GENERATE_FORMATS,
-                format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib.")
+                format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib "
+                            "(a snippet), tokens (W3C design tokens), scss, less, mplstyle (a matplotlib style "
+                            "sheet), vega-lite (a config), plotly (a layout template), r (a named vector).")
 def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
                  **options):
     """Make a palette that passes the checks, and show how it scores. Exit 1 when the

@@ -59,7 +59,10 @@ REPORT_EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "h
                      "sarif": "sarif"}
 REPORT_FORMATS = tuple(REPORT_EXTENSIONS)
 #: Output formats of ``generate``, with the file suffix of each.
-GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py"}
+#: The design-system and plotting-library formats name each colour too.
+GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py",
+                       "tokens": "tokens", "scss": "scss", "less": "less", "mplstyle": "mplstyle",
+                       "vega-lite": "vl.json", "plotly": "plotly.json", "r": "R"}
 GENERATE_FORMATS = tuple(GENERATE_EXTENSIONS)
 
 #: Chart image files that ``scan`` reads: raster formats (Pillow) and SVG.

@@ -1,4 +1,5 @@
-"""A generated palette as text, JSON, a hex list, CSS custom properties or a matplotlib snippet."""
+"""A generated palette as text, JSON, a hex list, CSS custom properties, a matplotlib
+snippet, or a design-system / plotting-library file (:mod:`.palette_formats`)."""
 
 from __future__ import annotations
 
@@ -6,9 +7,11 @@ import json
 
 import numpy as np
 
+from ..perceive.names import color_names
 from ..terms import GENERATE_FORMATS as FORMATS
 from .contract import stamp
 from .facts import CAUTION
+from .palette_formats import PALETTE_FORMATS, render_palette
 from .text import render_text
 
 __all__ = ["FORMATS", "render_generated"]
@@ -29,6 +32,8 @@ def render_generated(gen, fmt: str, color: bool = False) -> str:
     ``css`` (custom properties) or ``matplotlib`` (a snippet to paste)."""
     summary = _summary(gen)
     why = [f"  {line}" for line in gen.explanation]
+    if fmt in PALETTE_FORMATS:
+        return render_palette(fmt, gen.kind, gen.colors, color_names(gen.colors), summary)
     if fmt == "json":
         return json.dumps(stamp("generate", {**gen.to_dict(), "caution": CAUTION}), indent=2, ensure_ascii=False) + "\n"
     if fmt == "hex":
