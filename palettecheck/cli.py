@@ -179,10 +179,16 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
               help="ΔE' within which colours count as one (default 3; noise, rounding).")
 @click.option("--include-neutrals", is_flag=True,
               help="Check greys as data colours too (by default they are taken for text, axes, grid).")
+@click.option("--together", is_flag=True,
+              help="Review the charts as one display (a dashboard): colour inventory and budget, near "
+                   "misses, colours that merge across charts; dashboard pages are split into their charts.")
+@click.option("--palette", "approved", metavar="SOURCE", default=None,
+              help="With --together: the approved palette (any palette file); other colours are errors.")
+@click.option("--whole", is_flag=True, help="With --together: read each image as one chart, never split it.")
 @baseline_options
 @common_options(formats=REPORT_FORMATS, format_help=REPORT_HELP)
-def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, baseline, write_baseline, backgrounds, kind,
-             fmt, output, **options):
+def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, approved, whole, baseline,
+             write_baseline, backgrounds, kind, fmt, output, **options):
     """Check the colours of every chart image under PATHS.
 
     Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
@@ -193,6 +199,11 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, baseline, w
     from .report import render_scan
 
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
+    if together:
+        _review(paths, settings, approved, whole, kind, backgrounds, include_neutrals, min_share, merge_radius,
+                fmt, output)
+    if approved or whole:
+        raise click.UsageError(f"{'--palette' if approved else '--whole'} goes with --together")
     progress = _progress_bar() if sys.stderr.isatty() else None
     report = scan(paths, settings, jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
                   include_neutrals=include_neutrals, progress=progress,
@@ -216,6 +227,27 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, baseline, w
     emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
          f"scan.{REPORT_EXTENSIONS[fmt]}")
     sys.exit(report.exit_code)
+
+
+def _review(paths, settings, approved, whole, kind, backgrounds, include_neutrals, min_share, merge_radius,
+            fmt, output):
+    """scan --together: the charts under PATHS as one display."""
+    from .judge.display import review_paths
+    from .read import read_sources
+    from .read.images import background_rgb
+    from .report.display import render_display
+
+    palette = read_sources([approved], background_rgb(settings.backgrounds[0])) if approved else None
+    review = review_paths(paths, settings, whole=whole, approved=palette, kind=kind,
+                          backgrounds=settings.backgrounds if backgrounds else (), include_neutrals=include_neutrals,
+                          min_share=min_share, merge_radius=merge_radius)
+    for _, message in review.errors:
+        click.echo(f"palettecheck: {message}", err=True)
+    if not review.charts and not review.errors:
+        raise click.UsageError(f"no chart images found in {', '.join(paths)}")
+    emit(render_display(review, fmt, color=_use_color() and output is None), output, paths,
+         f"display.{REPORT_EXTENSIONS[fmt]}")
+    sys.exit(review.exit_code)
 
 
 def _progress_bar():
