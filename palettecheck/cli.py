@@ -232,6 +232,8 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
 def _review(paths, settings, approved, whole, kind, backgrounds, include_neutrals, min_share, merge_radius,
             fmt, output):
     """scan --together: the charts under PATHS as one display."""
+    if fmt not in ("text", "json", "markdown"):
+        raise click.UsageError(f"--together writes text, json or markdown, not {fmt}")
     from .judge.display import review_paths
     from .read import read_sources
     from .read.images import background_rgb

@@ -54,8 +54,7 @@ def _markdown(review) -> str:
 
 
 def render_display(review, fmt: str, color: bool = False) -> str:
-    """``json`` (the scan contract plus ``display``), ``markdown``, or text (also for html
-    until the display has its own page)."""
+    """``json`` (the scan contract plus ``display``), ``markdown`` or ``text``."""
     if fmt == "json":
         data = {**review_scan_dict(review), "display": review.to_dict(), "caution": CAUTION}
         return json.dumps(stamp("scan", data), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
