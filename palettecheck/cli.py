@@ -6,12 +6,13 @@ Exit codes: 0 passed, 1 checked and failed, 2 bad input or usage: one line on st
 
 from __future__ import annotations
 
+import math
 import os
 import sys
 
 import click
 
-from .errors import PalettecheckError
+from .errors import PalettecheckError, one_line, printable
 from .terms import (
     CVD_MODELS,
     GENERATE_EXTENSIONS,
@@ -54,6 +55,21 @@ class BandParam(click.ParamType):
             self.fail(str(e), param, ctx)
 
 
+class FiniteFloat(click.FloatRange):
+    """A float range that refuses NaN and infinities (a comparison with NaN is always
+    false, so a plain range would let it through)."""
+
+    def convert(self, value, param, ctx):
+        rv = click.FLOAT.convert(value, param, ctx)
+        if not math.isfinite(rv):
+            self.fail(f"{printable(value)!r} is not a finite number.", param, ctx)
+        return super().convert(rv, param, ctx)
+
+
+def finite(min=None, max=None, **kw) -> FiniteFloat:  # noqa: A002 - click's names
+    return FiniteFloat(min, max, **kw)
+
+
 COLOR = ColorParam()
 
 
@@ -69,16 +85,16 @@ def common_options(f=None, *, formats=("text", "json"), format_help="Output form
                      help="Data scale the colours encode (default categorical)."),
         click.option("--mark", type=click.Choice(MARKS), default=None,
                      help="Mark size: thin lines and small points need larger differences (default area)."),
-        click.option("--severity", type=click.FloatRange(0, 1), default=None,
+        click.option("--severity", type=finite(0, 1), default=None,
                      help="CVD severity, 0-1 (default 1: dichromacy)."),
         click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
                      help="CVD simulation: Machado et al. 2009 (default) or Brettel et al. 1997, "
                           "the better-founded model for tritanopia."),
-        click.option("--min-delta-e", type=click.FloatRange(min=0, min_open=True), default=None,
+        click.option("--min-delta-e", type=finite(min=0, min_open=True), default=None,
                      help="ΔE' below which a pair is an error (default: set by --mark)."),
         click.option("--print-safe", is_flag=True, default=None,
                      help="Treat pairs that merge in grey as errors, not warnings."),
-        click.option("--fail-under", type=click.FloatRange(0, 100), default=None,
+        click.option("--fail-under", type=finite(0, 100), default=None,
                      help="Fail when the score is below this (default 0)."),
         click.option("--format", "fmt", type=click.Choice(formats), default="text", help=format_help),
         click.option("--output", "-o", type=click.Path(dir_okay=True), default=None,
@@ -108,17 +124,33 @@ def emit(text: str, output: str | None, inputs=(), default_name: str = "report")
 
     path = output_path(output, default_name)
     write_atomic(path, text, inputs)
-    click.echo(f"wrote {path}", err=True)
+    click.echo(f"wrote {one_line(path)}", err=True)
 
 
 def _stem(sources) -> str:
     return os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
 
 
+#: What the final guard in :func:`main` names: the command, then its inputs once known.
+_RUN = {"debug": False, "subject": "palettecheck"}
+
+
+def _about(inputs) -> None:
+    """Name this run's inputs in an internal-error line (up to three; else the command)."""
+    inputs = [str(x) for x in inputs]
+    if 0 < len(inputs) <= 3:
+        _RUN["subject"] = ", ".join(inputs)
+
+
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(package_name="palettecheck")
-def cli() -> None:
+@click.option("--debug", is_flag=True, help="On an internal error, print the traceback too.")
+@click.pass_context
+def cli(ctx, debug) -> None:
     """Check whether a chart's colours can be told apart by every reader."""
+    _RUN["debug"] = debug
+    if ctx.invoked_subcommand:
+        _RUN["subject"] = ctx.invoked_subcommand
 
 
 @cli.command("check")
@@ -133,6 +165,7 @@ def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
     palette file (.txt, .json, .tokens, .css) or a chart image (.png, .jpg, .webp,
     .svg: its data colours, checked against its own background too); several
     SOURCEs make one palette."""
+    _about(sources)
     from .judge import check_sources
     from .report import render
 
@@ -151,10 +184,10 @@ def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
 @click.argument("paths", nargs=-1, required=True, type=click.Path())
 @click.option("--jobs", "-j", type=click.IntRange(min=1), default=None,
               help="Processes reading images at once (default: one per core).")
-@click.option("--min-share", type=click.FloatRange(0, 1, max_open=True), default=None,
+@click.option("--min-share", type=finite(0, 1, max_open=True), default=None,
               help="Leave out colours covering less than this fraction of a chart's "
                    "non-background pixels (default 0.002).")
-@click.option("--merge-radius", type=click.FloatRange(min=0, min_open=True), default=None,
+@click.option("--merge-radius", type=finite(min=0, min_open=True), default=None,
               help="ΔE' within which colours count as one (default 3; noise, rounding).")
 @click.option("--include-neutrals", is_flag=True,
               help="Check greys as data colours too (by default they are taken for text, axes, grid).")
@@ -166,6 +199,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
     Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
     prints one line per chart. Exit 1 when a
     chart fails, 2 when a file could not be read (the others are still checked)."""
+    _about(paths)
     from .judge import scan
     from .read.extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from .report import render_scan
@@ -177,7 +211,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
                   min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
                   merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
     for _, message in report.errors:
-        click.echo(f"palettecheck: {message}", err=True)
+        click.echo(f"palettecheck: {one_line(message)}", err=True)
     if not report.images and not report.errors:
         raise click.UsageError(f"no chart images found in {', '.join(paths)}")
     emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
@@ -205,12 +239,12 @@ def _progress_bar():
               help="Categorical: a colour that must be in the palette unchanged (repeatable).")
 @click.option("--lightness", type=BandParam(), default=None,
               help="J' band (0-100): the span of a ramp, or where new categorical colours may go.")
-@click.option("--min-chroma", type=float, default=None,
+@click.option("--min-chroma", type=finite(), default=None,
               help="Categorical: M' floor of the new colours (default 10; 0 allows greys).")
-@click.option("--min-contrast", type=click.FloatRange(min=1), default=None,
+@click.option("--min-contrast", type=finite(min=1), default=None,
               help="WCAG ratio each colour (ramps: the far end) needs against the background; "
                    "1 turns it off here and in the check (default 3, 4.5 for text).")
-@click.option("--seed", type=int, default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
+@click.option("--seed", type=click.IntRange(min=0), default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
 @common_options(formats=GENERATE_FORMATS,
                 format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib.")
 def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
@@ -249,6 +283,7 @@ def fix_cmd(sources, keep, fmt, output, **options):
     """Suggest the smallest colour changes that make a palette pass. The repaired
     palette is written in the format it came in (to --output, or stdout) and the
     moves are explained on stderr; --format json gives everything as one object."""
+    _about(sources)
     from .read import read_sources
     from .read.images import background_rgb
     from .read.rewrite import write_back
@@ -275,7 +310,7 @@ def fix_cmd(sources, keep, fmt, output, **options):
 @click.argument("image", type=click.Path())
 @click.option("--output", "-o", type=click.Path(file_okay=False), default="reports", show_default=True,
               help="Folder for <stem>-<vision>.png and <stem>-sheet.png (made if missing).")
-@click.option("--severity", type=click.FloatRange(0, 1), default=None,
+@click.option("--severity", type=finite(0, 1), default=None,
               help="CVD severity, 0-1 (default 1: dichromacy).")
 @click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
               help="CVD simulation model (default machado).")
@@ -283,6 +318,7 @@ def simulate_cmd(image, output, severity, cvd_model):
     """Show a chart image as each simulated vision sees it.
 
     Writes one PNG per vision plus a sheet of all of them side by side."""
+    _about((image,))
     from pathlib import Path
 
     from .errors import OutputError
@@ -295,11 +331,11 @@ def simulate_cmd(image, output, severity, cvd_model):
     except OSError as e:
         raise OutputError(f"{out}: cannot make the folder ({e.strerror or e})") from None
     for path in simulate_image(image, out, settings.severity, settings.cvd_model):
-        click.echo(str(path))
+        click.echo(one_line(path))
 
 
 def _fail(message: str, code: int = 2):
-    click.echo(f"palettecheck: {message}", err=True)
+    click.echo(f"palettecheck: {one_line(message)}", err=True)
     sys.exit(code)
 
 
@@ -314,13 +350,17 @@ def _hint(e: click.BadParameter) -> str:
 
 def main(argv=None) -> None:
     """Entry point: every error becomes one line on stderr, ``palettecheck: <what>:
-    <problem>``, and exit code 2."""
+    <problem>``, and exit code 2. Anything unexpected is caught by the final guard:
+    ``palettecheck: <input or command>: internal error: <type>`` (the traceback only
+    with ``--debug``), so a user never sees a traceback."""
+    _RUN.update(debug=False, subject="palettecheck")
+    restore = _on_signals()
     try:
         rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
     except PalettecheckError as e:
         _fail(str(e), e.exit_code)
-    except click.exceptions.Abort:
-        _fail("aborted")
+    except (click.exceptions.Abort, KeyboardInterrupt):
+        _fail(f"{_RUN['subject']}: interrupted")
     except click.MissingParameter as e:
         _fail(e.format_message())
     except click.BadParameter as e:
@@ -329,5 +369,72 @@ def main(argv=None) -> None:
     except click.ClickException as e:
         _fail(e.format_message())
     except BrokenPipeError:
+        _quiet_stdout()
         sys.exit(1)
+    except MemoryError:
+        _fail(f"{_RUN['subject']}: not enough memory")
+    except RecursionError:
+        _fail(f"{_RUN['subject']}: input nested too deeply")
+    except Exception as e:  # noqa: BLE001 - the final guard
+        if _RUN["debug"]:
+            import traceback
+
+            traceback.print_exc()
+        _fail(f"{_RUN['subject']}: internal error: {type(e).__name__}")
+    finally:
+        restore()
     sys.exit(rv if isinstance(rv, int) else 0)
+
+
+def _quiet_stdout() -> None:
+    """After a closed pipe, send what Python still flushes at exit nowhere."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError):
+        pass
+
+
+def _on_signals():
+    """SIGTERM and SIGHUP remove the temporary file of a write in progress and stop
+    the scan's worker processes, then end the process by the same signal (so a
+    shell sees how it ended); SIGINT raises KeyboardInterrupt as usual and unwinds
+    (the writer removes its temporary file) to one line and exit 2. Returns a
+    function restoring the previous handlers."""
+    import signal
+
+    def stop(signum, frame):
+        from .report.write import remove_temporaries
+
+        remove_temporaries()
+        _stop_children()
+        signal.signal(signum, signal.SIG_DFL)
+        os.kill(os.getpid(), signum)
+
+    previous = {}
+    for name in ("SIGTERM", "SIGHUP"):
+        sig = getattr(signal, name, None)
+        if sig is None:
+            continue
+        try:
+            previous[sig] = signal.signal(sig, stop)
+        except (ValueError, OSError):  # not the main thread
+            pass
+
+    def restore() -> None:
+        for sig, handler in previous.items():
+            try:
+                signal.signal(sig, handler if handler is not None else signal.SIG_DFL)
+            except (ValueError, OSError, TypeError):
+                pass
+
+    return restore
+
+
+def _stop_children() -> None:
+    if "multiprocessing" not in sys.modules:
+        return
+    import multiprocessing
+
+    for child in multiprocessing.active_children():
+        child.kill()

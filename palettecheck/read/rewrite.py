@@ -25,7 +25,7 @@ def palette_text(palette: Palette, fmt: str) -> str:
     lock), ``json`` (a list of ``{hex, name, locked}``) or ``css`` (custom properties)."""
     if fmt == "json":
         items = [{"hex": s.hex, **({"name": s.name} if s.name else {}), "locked": s.locked} for s in palette]
-        return json.dumps(items, indent=2, ensure_ascii=False) + "\n"
+        return json.dumps(items, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
     if fmt == "css":
         names = [re.sub(r"[^A-Za-z0-9_-]+", "-", s.name).strip("-") if s.name else f"color-{i + 1}"
                  for i, s in enumerate(palette)]
@@ -102,7 +102,7 @@ def _rewrite_json(text: str, old: list[str], new: list[str]) -> str:
             return out
         return swap(node)
 
-    return json.dumps(walk(data), indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(walk(data), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 def rewrite_source(path: Path, old: Palette, new: Palette) -> str:

@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-import json
-
 from ..terms import ERROR
 from .facts import CAUTION
+from .jsonout import json_text
 from .text import swatch
 
 __all__ = ["render_fix", "render_fix_json"]
@@ -13,7 +12,7 @@ __all__ = ["render_fix", "render_fix_json"]
 
 def render_fix_json(repair) -> str:
     """Everything about a repair as one JSON object (DESIGN.md's ``fix`` contract)."""
-    return json.dumps({**repair.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
+    return json_text({**repair.to_dict(), "caution": CAUTION})
 
 
 def render_fix(repair, color: bool = False) -> str:

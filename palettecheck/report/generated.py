@@ -2,12 +2,11 @@
 
 from __future__ import annotations
 
-import json
-
 import numpy as np
 
 from ..terms import GENERATE_FORMATS as FORMATS
 from .facts import CAUTION
+from .jsonout import json_text
 from .text import render_text
 
 __all__ = ["FORMATS", "render_generated"]
@@ -29,7 +28,7 @@ def render_generated(gen, fmt: str, color: bool = False) -> str:
     summary = _summary(gen)
     why = [f"  {line}" for line in gen.explanation]
     if fmt == "json":
-        return json.dumps({**gen.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
+        return json_text({**gen.to_dict(), "caution": CAUTION})
     if fmt == "hex":
         lines = [f"# {gen.kind} palette from palettecheck: {summary}"]
         lines += [f"# {line}" for line in gen.explanation]

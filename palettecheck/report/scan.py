@@ -3,10 +3,10 @@ HTML scan pages are in their own modules)."""
 
 from __future__ import annotations
 
-import json
 import shutil
 
 from .facts import CAUTION, colors_summary, main_problem
+from .jsonout import json_text
 
 __all__ = ["render_table", "render_scan_json", "render_scan_text"]
 
@@ -44,7 +44,7 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
 
 
 def render_scan_json(report) -> str:
-    return json.dumps({**report.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
+    return json_text({**report.to_dict(), "caution": CAUTION})
 
 
 def render_scan_text(report, color: bool = False) -> str:
