@@ -118,7 +118,15 @@ def _use_color() -> bool:
 def emit(text: str, output: str | None, inputs=(), default_name: str = "report") -> None:
     """Print ``text``, or write it atomically to ``output`` (a file, or a folder)."""
     if output is None:
-        click.echo(text, nl=False)
+        try:
+            click.echo(text, nl=False)
+            sys.stdout.flush()
+        except BrokenPipeError:
+            raise
+        except OSError as e:
+            from .errors import OutputError
+
+            raise OutputError(f"stdout: cannot write ({e.strerror or e})") from None
         return
     from .report.write import output_path, write_atomic
 
@@ -183,7 +191,7 @@ def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
 @cli.command("scan")
 @click.argument("paths", nargs=-1, required=True, type=click.Path())
 @click.option("--jobs", "-j", type=click.IntRange(min=1), default=None,
-              help="Processes reading images at once (default: one per core).")
+              help="Processes reading images at once (default and most: one per available core).")
 @click.option("--min-share", type=finite(0, 1, max_open=True), default=None,
               help="Leave out colours covering less than this fraction of a chart's "
                    "non-background pixels (default 0.002).")
@@ -204,7 +212,13 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
     from .read.extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from .report import render_scan
 
+    from .judge.charts import available_cores, capped_jobs
+
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
+    if jobs is not None and capped_jobs(jobs) < jobs:
+        click.echo(f"palettecheck: --jobs {jobs}: capped at {capped_jobs(jobs)}, the cores available"
+                   + ("" if capped_jobs(jobs) == available_cores() else " to a daemonic process"), err=True)
+        jobs = capped_jobs(jobs)
     progress = _progress_bar() if sys.stderr.isatty() else None
     report = scan(paths, settings, jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
                   include_neutrals=include_neutrals, progress=progress,
@@ -214,7 +228,9 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
         click.echo(f"palettecheck: {one_line(message)}", err=True)
     if not report.images and not report.errors:
         raise click.UsageError(f"no chart images found in {', '.join(paths)}")
-    emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
+    # never over any file read in this run, found inside folders included
+    read = [*paths, *(c.path for c in report.images), *(p for p, _ in report.errors)]
+    emit(render_scan(report, fmt, color=_use_color() and output is None), output, read,
          f"scan.{REPORT_EXTENSIONS[fmt]}")
     sys.exit(report.exit_code)
 
@@ -289,11 +305,11 @@ def fix_cmd(sources, keep, fmt, output, **options):
     from .read.rewrite import write_back
     from .repair import repair
     from .report import render_repair
-    from .report.write import refuse_overwrite
+    from .report.write import check_target
 
     settings = _settings(**options)
-    if output is not None:
-        refuse_overwrite(output, sources)
+    if output is not None and not output.endswith(("/", os.sep)) and not os.path.isdir(output):
+        check_target(output, sources)
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
     result = repair(palette, settings, keep)
     # the palette as it came in: a lock from --keep is not written back
@@ -359,7 +375,7 @@ def main(argv=None) -> None:
         rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
     except PalettecheckError as e:
         _fail(str(e), e.exit_code)
-    except (click.exceptions.Abort, KeyboardInterrupt):
+    except (click.exceptions.Abort, KeyboardInterrupt, _Interrupted):
         _fail(f"{_RUN['subject']}: interrupted")
     except click.MissingParameter as e:
         _fail(e.format_message())
@@ -395,13 +411,20 @@ def _quiet_stdout() -> None:
         pass
 
 
+class _Interrupted(BaseException):
+    """Ctrl-C. Not a KeyboardInterrupt, which click answers with a blank line first."""
+
+
 def _on_signals():
     """SIGTERM and SIGHUP remove the temporary file of a write in progress and stop
     the scan's worker processes, then end the process by the same signal (so a
-    shell sees how it ended); SIGINT raises KeyboardInterrupt as usual and unwinds
-    (the writer removes its temporary file) to one line and exit 2. Returns a
-    function restoring the previous handlers."""
+    shell sees how it ended); SIGINT unwinds (the writer removes its temporary file,
+    the scan stops its workers) to one line and exit 2. Returns a function restoring
+    the previous handlers."""
     import signal
+
+    def interrupt(signum, frame):
+        raise _Interrupted()
 
     def stop(signum, frame):
         from .report.write import remove_temporaries
@@ -412,6 +435,11 @@ def _on_signals():
         os.kill(os.getpid(), signum)
 
     previous = {}
+    try:
+        if signal.getsignal(signal.SIGINT) is signal.default_int_handler:  # not ignored
+            previous[signal.SIGINT] = signal.signal(signal.SIGINT, interrupt)
+    except (ValueError, OSError):  # not the main thread
+        pass
     for name in ("SIGTERM", "SIGHUP"):
         sig = getattr(signal, name, None)
         if sig is None:
