@@ -318,8 +318,17 @@ def fix_cmd(sources, keep, fmt, output, **options):
         text, name = render_repair(result, "json"), f"{os.path.splitext(name)[0]}.json"
     else:
         click.echo(render_repair(result, "text", color=_use_color()), err=True, nl=False)
+    if output is None and sys.stdout.isatty():
+        text = _for_terminal(text)
     emit(text, output, sources, name)
     sys.exit(0 if result.passed else 1)
+
+
+def _for_terminal(text: str) -> str:
+    """A file's text shown on a terminal: line by line, control characters stripped
+    (a palette file's comments could carry escape sequences). Redirected, the text
+    goes out byte for byte."""
+    return "".join(printable(line.rstrip("\r\n")) + "\n" for line in text.splitlines())
 
 
 @cli.command("simulate")

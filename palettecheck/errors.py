@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import re
 
-__all__ = ["printable", "one_line", "PalettecheckError", "ColorError", "ReadError", "SettingsError", "GenerateError",
+__all__ = ["printable", "one_line", "json_escapes", "PalettecheckError", "ColorError", "ReadError", "SettingsError", "GenerateError",
            "RepairError", "OutputError"]
 
 
@@ -85,3 +85,13 @@ def one_line(text) -> str:
             f"\\x{ord(c):02x}" if ord(c) < 0x100 else f"\\u{ord(c):04x}")
 
     return _CONTROL.sub(show, text)
+
+
+# json.dumps escapes C0 controls itself; with ensure_ascii=False it leaves these raw.
+_JSON_RAW = re.compile("[\x7f-\x9f\u202a-\u202e\u2066-\u2069\ud800-\udfff]")
+
+
+def json_escapes(text: str) -> str:
+    """JSON text with DEL, C1 controls, bidi overrides and lone surrogates written as
+    ``\\u`` escapes: the same strings to a JSON reader, inert on a terminal."""
+    return _JSON_RAW.sub(lambda m: f"\\u{ord(m.group(0)):04x}", text)

@@ -10,14 +10,11 @@ from __future__ import annotations
 
 import json
 import math
-import re
 
+from ..errors import json_escapes
 from .facts import CAUTION
 
 __all__ = ["json_text", "result_dict", "render_json"]
-
-# json.dumps already escapes C0 controls; with ensure_ascii=False it leaves these raw.
-_RAW = re.compile("[\x7f-\x9f\u202a-\u202e\u2066-\u2069\ud800-\udfff]")
 
 
 def _finite(node):
@@ -33,7 +30,7 @@ def _finite(node):
 def json_text(obj) -> str:
     """``obj`` as indented, strict JSON text ending in a newline."""
     text = json.dumps(_finite(obj), indent=2, ensure_ascii=False, allow_nan=False)
-    return _RAW.sub(lambda m: f"\\u{ord(m.group(0)):04x}", text) + "\n"
+    return json_escapes(text) + "\n"
 
 
 def result_dict(result) -> dict:

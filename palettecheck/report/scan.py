@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import shutil
 
+from ..errors import printable
 from .facts import CAUTION, colors_summary, main_problem
 from .jsonout import json_text
 
@@ -18,11 +19,11 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
     """The summary table; ``width`` (a terminal's) shortens long problems and paths."""
     rows = []
     for c in report.images:
-        rows.append((c.path, c.reading.background, colors_summary(c), str(c.result.score.value),
-                     "pass" if c.passed else "FAIL", main_problem(c)))
+        rows.append((printable(c.path), c.reading.background, colors_summary(c), str(c.result.score.value),
+                     "pass" if c.passed else "FAIL", printable(main_problem(c))))
     for path, message in report.errors:
         problem = message[len(path) + 2:] if message.startswith(f"{path}: ") else message
-        rows.append((path, "-", "-", "-", "unread", problem))
+        rows.append((printable(path), "-", "-", "-", "unread", printable(problem)))
     head = ("chart", "background", "colours", "score", "result", "main problem")
     cols = [max([len(head[k])] + [len(r[k]) for r in rows]) for k in range(5)]
     if width:
