@@ -298,20 +298,32 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
 def fix_cmd(sources, keep, fmt, output, **options):
     """Suggest the smallest colour changes that make a palette pass. The repaired
     palette is written in the format it came in (to --output, or stdout) and the
-    moves are explained on stderr; --format json gives everything as one object."""
+    moves are explained on stderr; --format json gives everything as one object.
+    An SVG chart is written back with its paints changed; for a PNG/JPEG chart a
+    recoloured preview goes to --output (default reports/) and the new palette to
+    stdout."""
     _about(sources)
+    from .judge.charts import prepare
     from .read import read_sources
-    from .read.images import background_rgb
+    from .read.images import IMAGE_EXTENSIONS, background_rgb
     from .read.rewrite import write_back
     from .repair import repair
     from .report import render_repair
     from .report.write import check_target
 
     settings = _settings(**options)
+    chart = sources[0] if len(sources) == 1 and os.path.splitext(sources[0])[1].lower() in IMAGE_EXTENSIONS \
+        else None
     if output is not None and not output.endswith(("/", os.sep)) and not os.path.isdir(output):
         check_target(output, sources)
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
+    if chart is not None:
+        palette, settings = prepare(palette, settings, options.get("kind"),
+                                    settings.backgrounds if options.get("backgrounds") else ())
     result = repair(palette, settings, keep)
+    if chart is not None and getattr(palette, "reading", None) is not None:
+        _fix_chart(chart, palette.reading, result, fmt, output)
+        sys.exit(0 if result.passed else 1)
     # the palette as it came in: a lock from --keep is not written back
     text, name = write_back(sources, palette, result.palette.hexes)
     if fmt == "json":
@@ -322,6 +334,47 @@ def fix_cmd(sources, keep, fmt, output, **options):
         text = _for_terminal(text)
     emit(text, output, sources, name)
     sys.exit(0 if result.passed else 1)
+
+
+def _fix_chart(chart: str, reading, result, fmt: str, output) -> None:
+    """``fix`` on a chart: an SVG rewritten with the new paints (read back to
+    confirm), or a recoloured preview of a raster chart next to the new palette."""
+    from .read.rewrite import palette_text
+    from .report import render_repair
+    from .read.images import background_rgb
+    from .report.chartfix import confirm_svg, fixed_svg, write_preview
+    from .report.facts import CAUTION
+    from .report.jsonout import json_text
+    from .report.write import output_path
+
+    stem = os.path.splitext(os.path.basename(chart))[0]
+    moves = result.moves
+    if fmt != "json":
+        click.echo(render_repair(result, "text", color=_use_color()), err=True, nl=False)
+    if chart.lower().endswith(".svg"):
+        text, changed = fixed_svg(chart, moves)
+        if moves:
+            confirm_svg(text, moves, reading.background, source=chart)
+        if fmt == "json":
+            text = json_text({**result.to_dict(), "paints_changed": changed, "caution": CAUTION})
+        if output is None and sys.stdout.isatty():
+            text = _for_terminal(text)
+        emit(text, output, (chart,), f"{stem}-fixed.{'json' if fmt == 'json' else 'svg'}")
+        return
+    preview = None
+    if moves:
+        preview = output_path(output if output is not None else "reports/", f"{stem}-fixed-preview.png")
+        lossy = chart.lower().endswith((".jpg", ".jpeg", ".jpe", ".webp"))
+        write_preview(chart, background_rgb(reading.background), moves, preview, lossy)
+        click.echo(f"palettecheck: {one_line(chart)}: wrote {one_line(preview)}, an approximate preview "
+                   "(pixels recoloured, not redrawn); re-export the chart with the new palette, printed on stdout", err=True)
+    fixed = result.palette
+    if fmt == "json":
+        out = {**result.to_dict(), "preview": None if preview is None else str(preview), "caution": CAUTION}
+        click.echo(json_text(out), nl=False)
+    else:
+        click.echo(_for_terminal(palette_text(fixed, "text")) if sys.stdout.isatty()
+                   else palette_text(fixed, "text"), nl=False)
 
 
 def _for_terminal(text: str) -> str:

@@ -19,9 +19,9 @@ from ..read.raster import apply_icc, open_image
 from ..terms import VISION_TITLES, VISIONS
 from .write import check_target, write_atomic_with
 
-__all__ = ["simulate_image", "simulated_views"]
+__all__ = ["simulate_image", "simulated_views", "decode_raster"]
 
-def _decode(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
+def decode_raster(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
     """sRGB ``(h, w, 3)`` uint8 pixels and alpha (or None) of a raster image."""
     notes: list = []
     with open_image(path) as im:
@@ -92,7 +92,7 @@ def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado"
     path, out_dir = Path(path), Path(out_dir)
     if path.suffix.lower() == ".svg":
         raise ReadError(f"{path}: simulate reads raster images; export the SVG as PNG first")
-    pixels, alpha, _ = _decode(path)
+    pixels, alpha, _ = decode_raster(path)
     if not out_dir.is_dir():
         raise OutputError(f"{out_dir}: not a folder")
     targets = {v: out_dir / f"{path.stem}-{v}.png" for v in VISIONS}
