@@ -128,10 +128,12 @@ def emit(text: str, output: str | None, inputs=(), default_name: str = "report")
 
             raise OutputError(f"stdout: cannot write ({e.strerror or e})") from None
         return
+    from .config import find_pyproject
     from .report.write import output_path, write_atomic
 
+    config = find_pyproject()  # the settings file read in this run is an input too
     path = output_path(output, default_name)
-    write_atomic(path, text, inputs)
+    write_atomic(path, text, [*inputs, *([config] if config else [])])
     click.echo(f"wrote {one_line(path)}", err=True)
 
 
@@ -431,10 +433,17 @@ def main(argv=None) -> None:
     <problem>``, and exit code 2. Anything unexpected is caught by the final guard:
     ``palettecheck: <input or command>: internal error: <type>`` (the traceback only
     with ``--debug``), so a user never sees a traceback."""
+    import warnings
+
     _RUN.update(debug=False, subject="palettecheck")
     restore = _on_signals()
     try:
-        rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
+        with warnings.catch_warnings():
+            # a library's warning is no message for the user (one line per error);
+            # --debug shows them
+            if not _wants_debug(argv):
+                warnings.simplefilter("ignore")
+            rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
     except PalettecheckError as e:
         _fail(str(e), e.exit_code)
     except (click.exceptions.Abort, KeyboardInterrupt, _Interrupted):
@@ -462,6 +471,16 @@ def main(argv=None) -> None:
     finally:
         restore()
     sys.exit(rv if isinstance(rv, int) else 0)
+
+
+def _wants_debug(argv) -> bool:
+    args = sys.argv[1:] if argv is None else list(argv)
+    for a in args:
+        if a == "--debug":
+            return True
+        if not a.startswith("-"):
+            return False  # the command: --debug is a group option
+    return False
 
 
 def _quiet_stdout() -> None:

@@ -45,8 +45,8 @@ class OutputError(PalettecheckError, OSError):
 
 # Terminal escape sequences: CSI (ESC [ ... final byte, or the 8-bit CSI 0x9b), OSC
 # (ESC ] ... ended by BEL or ESC \\, as OSC 8 hyperlinks and OSC 52 clipboard writes
-# are), DCS/SOS/PM/APC strings, and any other two-byte ESC sequence. ECMA-48, 5th ed.,
-# sections 5.3-5.6 (M: from memory).
+# are), DCS/SOS/PM/APC strings, and any other two-byte ESC sequence. [ECMA48] as the
+# xterm control-sequence document quotes it; BEL ending an OSC is xterm's [XtermCtlseqs].
 _SEQUENCE = re.compile(
     r"(?:\x1b\[|\x9b)[0-?]*[ -/]*[@-~]?"
     r"|(?:\x1b[\]PX^_]|[\x90\x98\x9d\x9e\x9f])[^\x07\x1b\x9c]*(?:\x07|\x1b\\|\x9c)?"

@@ -215,7 +215,9 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
     return report
 
 
-_PR_SET_PDEATHSIG = 1  # <linux/prctl.h>; prctl(2): signal sent when the parent thread dies
+#: <linux/prctl.h>: the signal a process gets when the thread that forked it ends
+#: [LinuxPrctl]. Cleared in a fork's child, so each worker sets it itself.
+_PR_SET_PDEATHSIG = 1
 
 
 def _worker_start(parent: int) -> None:

@@ -186,6 +186,25 @@ def test_never_over_an_input_by_any_name(run, tmp_path, palette, one_error):
     assert palette.read_bytes() == original
 
 
+def test_never_over_the_settings_file_read(run, tmp_path, palette, one_error):
+    (tmp_path / "pyproject.toml").write_text('[tool.palettecheck]\nmark = "line"\n')
+    one_error(run("check", "brand.json", "-o", "pyproject.toml"), "pyproject.toml")
+    assert "mark" in (tmp_path / "pyproject.toml").read_text()
+
+
+def test_a_library_warning_does_not_add_a_line(run, monkeypatch, one_error):
+    import warnings
+
+    import palettecheck.judge as judge
+
+    def warn_then_fail(*a, **k):
+        warnings.warn("overflow encountered", RuntimeWarning)
+        raise ValueError("x")
+
+    monkeypatch.setattr(judge, "check_sources", warn_then_fail)
+    one_error(run("check", "#1d3b6e"), "internal error: ValueError")
+
+
 def test_umask_is_respected_and_an_existing_mode_kept(run, tmp_path, palette):
     old = os.umask(0o027)
     try:
@@ -391,7 +410,8 @@ def test_scan_of_files_with_hostile_names(run, tmp_path, charts, bar_chart):
 
 
 def test_the_sanitiser():
-    # ECMA-48 sequences (M: from memory): CSI ED (clear screen), OSC 52, OSC 8, 8-bit CSI
+    # Sequences of [ECMA48] as [XtermCtlseqs] lists them (V): CSI ED (clear screen),
+    # OSC 52 (clipboard) and OSC 8 (hyperlink), ended by BEL or ST (ESC \), 8-bit CSI 0x9b
     from palettecheck.errors import one_line, printable
 
     assert printable("a\x1b[2J\x1b[3;1Hb") == "ab"
