@@ -211,10 +211,9 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
     chart fails, 2 when a file could not be read (the others are still checked)."""
     _about(paths)
     from .judge import scan
+    from .judge.charts import available_cores, capped_jobs
     from .read.extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from .report import render_scan
-
-    from .judge.charts import available_cores, capped_jobs
 
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
     if jobs is not None and capped_jobs(jobs) < jobs:
@@ -262,7 +261,8 @@ def _progress_bar():
 @click.option("--min-contrast", type=finite(min=1), default=None,
               help="WCAG ratio each colour (ramps: the far end) needs against the background; "
                    "1 turns it off here and in the check (default 3, 4.5 for text).")
-@click.option("--seed", type=click.IntRange(min=0), default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
+@click.option("--seed", type=click.IntRange(min=0), default=0, show_default=True,
+              help="Categorical: the same seed gives the same palette (0 or more).")
 @common_options(formats=GENERATE_FORMATS,
                 format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib.")
 def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
@@ -341,9 +341,9 @@ def fix_cmd(sources, keep, fmt, output, **options):
 def _fix_chart(chart: str, reading, result, fmt: str, output) -> None:
     """``fix`` on a chart: an SVG rewritten with the new paints (read back to
     confirm), or a recoloured preview of a raster chart next to the new palette."""
+    from .read.images import background_rgb
     from .read.rewrite import palette_text
     from .report import render_repair
-    from .read.images import background_rgb
     from .report.chartfix import confirm_svg, fixed_svg, write_preview
     from .report.facts import CAUTION
     from .report.jsonout import json_text
@@ -369,7 +369,8 @@ def _fix_chart(chart: str, reading, result, fmt: str, output) -> None:
         lossy = chart.lower().endswith((".jpg", ".jpeg", ".jpe", ".webp"))
         write_preview(chart, background_rgb(reading.background), moves, preview, lossy)
         click.echo(f"palettecheck: {one_line(chart)}: wrote {one_line(preview)}, an approximate preview "
-                   "(pixels recoloured, not redrawn); re-export the chart with the new palette, printed on stdout", err=True)
+                   "(pixels recoloured, not redrawn); re-export the chart with the new palette, "
+                   "printed on stdout", err=True)
     fixed = result.palette
     if fmt == "json":
         out = {**result.to_dict(), "preview": None if preview is None else str(preview), "caution": CAUTION}

@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import re
 
-__all__ = ["printable", "one_line", "json_escapes", "PalettecheckError", "ColorError", "ReadError", "SettingsError", "GenerateError",
-           "RepairError", "OutputError"]
+__all__ = ["printable", "one_line", "json_escapes", "PalettecheckError", "ColorError", "ReadError",
+           "SettingsError", "GenerateError", "RepairError", "OutputError"]
 
 
 class PalettecheckError(Exception):

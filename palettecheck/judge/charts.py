@@ -33,8 +33,7 @@ from ..read.images import background_rgb, find_images, read_image
 from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
-           "default_jobs",
-           "available_cores", "capped_jobs"]
+           "default_jobs", "available_cores", "capped_jobs"]
 
 @dataclass
 class ImageCheck:
