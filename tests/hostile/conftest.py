@@ -17,6 +17,9 @@ import click
 import pytest
 from click.testing import CliRunner
 
+#: Commands run through the CLI, and bad-input outcomes checked against the contract.
+TALLY = {"commands": 0, "one_line_errors": 0}
+
 #: An invented brand palette whose red and green merge under deuteranopia.
 RED, GREEN, NAVY = "#b8432f", "#4d8a34", "#1d3b6e"
 
@@ -31,6 +34,7 @@ def run(monkeypatch, tmp_path):
     runner = CliRunner()
 
     def invoke(*args):
+        TALLY["commands"] += 1
         return runner.invoke(click.command()(lambda: main([str(a) for a in args])), [],
                              catch_exceptions=False)
 
@@ -41,6 +45,7 @@ def run(monkeypatch, tmp_path):
 def cli(tmp_path):
     """``cli(*args, **popen_kwargs)`` -> a started ``palettecheck`` process."""
     def start(*args, **kw):
+        TALLY["commands"] += 1
         kw.setdefault("stdout", subprocess.PIPE)
         kw.setdefault("stderr", subprocess.PIPE)
         kw.setdefault("cwd", tmp_path)
@@ -58,6 +63,7 @@ def _one_error(res, names: str) -> str:
     lines = err.splitlines()
     assert len(lines) == 1 and err.endswith("\n"), err
     assert lines[0].startswith("palettecheck: ") and names in lines[0], lines[0]
+    TALLY["one_line_errors"] += 1
     return lines[0]
 
 
@@ -147,3 +153,9 @@ def running():
 @pytest.fixture(autouse=True)
 def _no_colour(monkeypatch):
     monkeypatch.setenv("NO_COLOR", "1")
+
+
+def pytest_terminal_summary(terminalreporter):
+    if TALLY["commands"]:
+        terminalreporter.write_line(f"hostile outputs: {TALLY['commands']} palettecheck runs, "
+                                    f"{TALLY['one_line_errors']} checked as one-line errors")
