@@ -13,7 +13,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import OutputError, ReadError
+from ..errors import OutputError, ReadError, printable
 from ..perceive.vision import simulate
 from ..read.raster import apply_icc, open_image
 from ..terms import VISION_TITLES, VISIONS
@@ -104,7 +104,7 @@ def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado"
         for vision, arr in views.items():
             _save_png(arr, alpha, targets[vision], (path,))
         sev = "" if severity == 1 else f", severity {severity:g}"
-        _sheet(views, targets["sheet"], f"{path.name}: simulated with {method.capitalize()}{sev}", (path,))
+        _sheet(views, targets["sheet"], f"{printable(path.name)}: simulated with {method.capitalize()}{sev}", (path,))
     except OutputError:
         raise
     except OSError as e:

@@ -409,6 +409,20 @@ def test_scan_of_files_with_hostile_names(run, tmp_path, charts, bar_chart):
     assert len(res.stderr.splitlines()) == 1 and "broken" in res.stderr
 
 
+def test_undecodable_file_names_and_lone_surrogates(run, tmp_path, charts, bar_chart):
+    name = os.fsdecode(b"n\xffx.png")  # a file name that is not UTF-8
+    bar_chart(tmp_path / name)
+    res = run("simulate", name, "-o", "views")
+    assert res.exit_code == 0, res.stderr
+    assert "n\\udcffx-sheet.png" in res.stdout and (tmp_path / "views" / os.fsdecode(b"n\xffx-sheet.png")).is_file()
+    assert run("scan", name).exit_code == 1
+    (tmp_path / "s.json").write_text('{"\\ud800 navy": "#1d3b6e", "red\\udfff": "#b8432f", "green": "#4d8a34"}')
+    for fmt in ("text", "json", "markdown", "html"):
+        res = run("check", "s.json", "--format", fmt)
+        assert res.exit_code == 1 and "Traceback" not in res.stderr
+    assert run("fix", "s.json").exit_code == 0
+
+
 def test_the_sanitiser():
     # Sequences of [ECMA48] as [XtermCtlseqs] lists them (V): CSI ED (clear screen),
     # OSC 52 (clipboard) and OSC 8 (hyperlink), ended by BEL or ST (ESC \), 8-bit CSI 0x9b
