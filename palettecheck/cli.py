@@ -316,7 +316,12 @@ def fix_cmd(sources, keep, fmt, output, **options):
     settings = _settings(**options)
     chart = sources[0] if len(sources) == 1 and os.path.splitext(sources[0])[1].lower() in IMAGE_EXTENSIONS \
         else None
-    if output is not None and not output.endswith(("/", os.sep)) and not os.path.isdir(output):
+    # refuse a bad --output before the moves are explained on stderr
+    if output is not None and not output.strip():
+        from .errors import OutputError
+
+        raise OutputError("--output: an empty path")
+    if output and not output.endswith(("/", os.sep)) and not os.path.isdir(output):
         check_target(output, sources)
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
     if chart is not None:

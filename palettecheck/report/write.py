@@ -45,6 +45,8 @@ def output_path(output, default_name: str) -> Path:
     """Where ``--output`` points: the path itself, or ``default_name`` inside it when
     it is a folder or ends with a slash (the folder is made when missing)."""
     text = os.fspath(output)
+    if not text.strip():
+        raise OutputError("--output: an empty path")
     path = Path(text)
     as_folder = text.endswith(("/", os.sep)) or path.is_dir()
     if not as_folder:

@@ -169,6 +169,11 @@ def test_special_files_are_never_replaced(run, tmp_path, palette, kind, command,
     assert not (tmp_path / "nowhere.txt").exists()
 
 
+def test_an_empty_output_path_is_refused(run, palette, one_error):
+    one_error(run("check", "brand.json", "-o", ""), "--output: an empty path")
+    one_error(run("fix", "brand.json", "-o", " "), "--output: an empty path")
+
+
 def test_scan_never_writes_over_a_chart_it_found(run, charts, one_error):
     before = (charts / "revenue.png").read_bytes()
     one_error(run("scan", "charts", "--output", "charts/revenue.png"), "charts/revenue.png")
