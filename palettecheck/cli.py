@@ -317,12 +317,15 @@ def fix_cmd(sources, keep, fmt, output, **options):
     chart = sources[0] if len(sources) == 1 and os.path.splitext(sources[0])[1].lower() in IMAGE_EXTENSIONS \
         else None
     # refuse a bad --output before the moves are explained on stderr
-    if output is not None and not output.strip():
+    if output is not None:
         from .errors import OutputError
 
-        raise OutputError("--output: an empty path")
-    if output and not output.endswith(("/", os.sep)) and not os.path.isdir(output):
-        check_target(output, sources)
+        if not output.strip():
+            raise OutputError("--output: an empty path")
+        if not output.endswith(("/", os.sep)) and not os.path.isdir(output):
+            check_target(output, sources)
+        elif os.path.lexists(folder := output.rstrip("/" + os.sep) or "/") and not os.path.isdir(folder):
+            raise OutputError(f"{output}: exists and is not a folder")
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
     if chart is not None:
         palette, settings = prepare(palette, settings, options.get("kind"),

@@ -172,6 +172,7 @@ def test_special_files_are_never_replaced(run, tmp_path, palette, kind, command,
 def test_an_empty_output_path_is_refused(run, palette, one_error):
     one_error(run("check", "brand.json", "-o", ""), "--output: an empty path")
     one_error(run("fix", "brand.json", "-o", " "), "--output: an empty path")
+    one_error(run("fix", "brand.json", "-o", "brand.json/"), "brand.json/: exists and is not a folder")
 
 
 def test_scan_never_writes_over_a_chart_it_found(run, charts, one_error):
