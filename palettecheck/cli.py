@@ -6,12 +6,13 @@ Exit codes: 0 passed, 1 checked and failed, 2 bad input or usage: one line on st
 
 from __future__ import annotations
 
+import math
 import os
 import sys
 
 import click
 
-from .errors import PalettecheckError
+from .errors import PalettecheckError, one_line, printable
 from .terms import (
     CVD_MODELS,
     GENERATE_EXTENSIONS,
@@ -54,6 +55,21 @@ class BandParam(click.ParamType):
             self.fail(str(e), param, ctx)
 
 
+class FiniteFloat(click.FloatRange):
+    """A float range that refuses NaN and infinities (a comparison with NaN is always
+    false, so a plain range would let it through)."""
+
+    def convert(self, value, param, ctx):
+        rv = click.FLOAT.convert(value, param, ctx)
+        if not math.isfinite(rv):
+            self.fail(f"{printable(value)!r} is not a finite number.", param, ctx)
+        return super().convert(rv, param, ctx)
+
+
+def finite(min=None, max=None, **kw) -> FiniteFloat:  # noqa: A002 - click's names
+    return FiniteFloat(min, max, **kw)
+
+
 COLOR = ColorParam()
 
 
@@ -69,16 +85,16 @@ def common_options(f=None, *, formats=("text", "json"), format_help="Output form
                      help="Data scale the colours encode (default categorical)."),
         click.option("--mark", type=click.Choice(MARKS), default=None,
                      help="Mark size: thin lines and small points need larger differences (default area)."),
-        click.option("--severity", type=click.FloatRange(0, 1), default=None,
+        click.option("--severity", type=finite(0, 1), default=None,
                      help="CVD severity, 0-1 (default 1: dichromacy)."),
         click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
                      help="CVD simulation: Machado et al. 2009 (default) or Brettel et al. 1997, "
                           "the better-founded model for tritanopia."),
-        click.option("--min-delta-e", type=click.FloatRange(min=0, min_open=True), default=None,
+        click.option("--min-delta-e", type=finite(min=0, min_open=True), default=None,
                      help="ΔE' below which a pair is an error (default: set by --mark)."),
         click.option("--print-safe", is_flag=True, default=None,
                      help="Treat pairs that merge in grey as errors, not warnings."),
-        click.option("--fail-under", type=click.FloatRange(0, 100), default=None,
+        click.option("--fail-under", type=finite(0, 100), default=None,
                      help="Fail when the score is below this (default 0)."),
         click.option("--format", "fmt", type=click.Choice(formats), default="text", help=format_help),
         click.option("--output", "-o", type=click.Path(dir_okay=True), default=None,
@@ -115,23 +131,49 @@ def _use_color() -> bool:
 def emit(text: str, output: str | None, inputs=(), default_name: str = "report") -> None:
     """Print ``text``, or write it atomically to ``output`` (a file, or a folder)."""
     if output is None:
-        click.echo(text, nl=False)
+        try:
+            click.echo(text, nl=False)
+            sys.stdout.flush()
+        except BrokenPipeError:
+            raise
+        except OSError as e:
+            from .errors import OutputError
+
+            raise OutputError(f"stdout: cannot write ({e.strerror or e})") from None
         return
+    from .config import find_pyproject
     from .report.write import output_path, write_atomic
 
+    config = find_pyproject()  # the settings file read in this run is an input too
     path = output_path(output, default_name)
-    write_atomic(path, text, inputs)
-    click.echo(f"wrote {path}", err=True)
+    write_atomic(path, text, [*inputs, *([config] if config else [])])
+    click.echo(f"wrote {one_line(path)}", err=True)
 
 
 def _stem(sources) -> str:
     return os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
 
 
+#: What the final guard in :func:`main` names: the command, then its inputs once known.
+_RUN = {"debug": False, "subject": "palettecheck"}
+
+
+def _about(inputs) -> None:
+    """Name this run's inputs in an internal-error line (up to three; else the command)."""
+    inputs = [str(x) for x in inputs]
+    if 0 < len(inputs) <= 3:
+        _RUN["subject"] = ", ".join(inputs)
+
+
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(package_name="palettecheck")
-def cli() -> None:
+@click.option("--debug", is_flag=True, help="On an internal error, print the traceback too.")
+@click.pass_context
+def cli(ctx, debug) -> None:
     """Check whether a chart's colours can be told apart by every reader."""
+    _RUN["debug"] = debug
+    if ctx.invoked_subcommand:
+        _RUN["subject"] = ctx.invoked_subcommand
 
 
 @cli.command("check")
@@ -146,6 +188,7 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
     palette file (.txt, .json, .tokens, .css) or a chart image (.png, .jpg, .webp,
     .svg: its data colours, checked against its own background too); several
     SOURCEs make one palette."""
+    _about(sources)
     from .judge import check_sources
     from .report import render
 
@@ -171,11 +214,11 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
 @cli.command("scan")
 @click.argument("paths", nargs=-1, required=True, type=click.Path())
 @click.option("--jobs", "-j", type=click.IntRange(min=1), default=None,
-              help="Processes reading images at once (default: one per core).")
-@click.option("--min-share", type=click.FloatRange(0, 1, max_open=True), default=None,
+              help="Processes reading images at once (default and most: one per available core).")
+@click.option("--min-share", type=finite(0, 1, max_open=True), default=None,
               help="Leave out colours covering less than this fraction of a chart's "
                    "non-background pixels (default 0.002).")
-@click.option("--merge-radius", type=click.FloatRange(min=0, min_open=True), default=None,
+@click.option("--merge-radius", type=finite(min=0, min_open=True), default=None,
               help="ΔE' within which colours count as one (default 3; noise, rounding).")
 @click.option("--include-neutrals", is_flag=True,
               help="Check greys as data colours too (by default they are taken for text, axes, grid).")
@@ -194,7 +237,9 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
     Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
     prints one line per chart. Exit 1 when a
     chart fails, 2 when a file could not be read (the others are still checked)."""
+    _about(paths)
     from .judge import scan
+    from .judge.charts import available_cores, capped_jobs
     from .read.extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from .report import render_scan
 
@@ -204,16 +249,22 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
                 fmt, output)
     if approved or whole:
         raise click.UsageError(f"{'--palette' if approved else '--whole'} goes with --together")
+    if jobs is not None and capped_jobs(jobs) < jobs:
+        click.echo(f"palettecheck: --jobs {jobs}: capped at {capped_jobs(jobs)}, the cores available"
+                   + ("" if capped_jobs(jobs) == available_cores() else " to a daemonic process"), err=True)
+        jobs = capped_jobs(jobs)
     progress = _progress_bar() if sys.stderr.isatty() else None
     report = scan(paths, settings, jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
                   include_neutrals=include_neutrals, progress=progress,
                   min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
                   merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+    # never over any file read in this run, found inside folders included
+    read = [*paths, *(c.path for c in report.images), *(p for p, _ in report.errors)]
     if write_baseline:
         from .judge.baseline import baseline_entries, baseline_text
 
         entries = [e for image in report.images for e in baseline_entries(image.result, image.path)]
-        emit(baseline_text(entries), write_baseline, paths, "palettecheck-baseline.json")
+        emit(baseline_text(entries), write_baseline, read, "palettecheck-baseline.json")
     if baseline:
         from .judge.baseline import load_baseline
 
@@ -221,10 +272,10 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
         for image in report.images:
             image.result = accepted.apply(image.result, image.path)
     for _, message in report.errors:
-        click.echo(f"palettecheck: {message}", err=True)
+        click.echo(f"palettecheck: {one_line(message)}", err=True)
     if not report.images and not report.errors:
         raise click.UsageError(f"no chart images found in {', '.join(paths)}")
-    emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
+    emit(render_scan(report, fmt, color=_use_color() and output is None), output, read,
          f"scan.{REPORT_EXTENSIONS[fmt]}")
     sys.exit(report.exit_code)
 
@@ -244,10 +295,10 @@ def _review(paths, settings, approved, whole, kind, backgrounds, include_neutral
                           backgrounds=settings.backgrounds if backgrounds else (), include_neutrals=include_neutrals,
                           min_share=min_share, merge_radius=merge_radius)
     for _, message in review.errors:
-        click.echo(f"palettecheck: {message}", err=True)
+        click.echo(f"palettecheck: {one_line(message)}", err=True)
     if not review.charts and not review.errors:
         raise click.UsageError(f"no chart images found in {', '.join(paths)}")
-    emit(render_display(review, fmt, color=_use_color() and output is None), output, paths,
+    emit(render_display(review, fmt, color=_use_color() and output is None), output, [*paths, *review.sources],
          f"display.{REPORT_EXTENSIONS[fmt]}")
     sys.exit(review.exit_code)
 
@@ -272,12 +323,13 @@ def _progress_bar():
               help="Categorical: a colour that must be in the palette unchanged (repeatable).")
 @click.option("--lightness", type=BandParam(), default=None,
               help="J' band (0-100): the span of a ramp, or where new categorical colours may go.")
-@click.option("--min-chroma", type=float, default=None,
+@click.option("--min-chroma", type=finite(), default=None,
               help="Categorical: M' floor of the new colours (default 10; 0 allows greys).")
-@click.option("--min-contrast", type=click.FloatRange(min=1), default=None,
+@click.option("--min-contrast", type=finite(min=1), default=None,
               help="WCAG ratio each colour (ramps: the far end) needs against the background; "
                    "1 turns it off here and in the check (default 3, 4.5 for text).")
-@click.option("--seed", type=int, default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
+@click.option("--seed", type=click.IntRange(min=0), default=0, show_default=True,
+              help="Categorical: the same seed gives the same palette (0 or more).")
 @common_options(formats=GENERATE_FORMATS,
                 format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib "
                             "(a snippet), tokens (W3C design tokens), scss, less, mplstyle (a matplotlib style "
@@ -317,34 +369,106 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
 def fix_cmd(sources, keep, fmt, output, **options):
     """Suggest the smallest colour changes that make a palette pass. The repaired
     palette is written in the format it came in (to --output, or stdout) and the
-    moves are explained on stderr; --format json gives everything as one object."""
+    moves are explained on stderr; --format json gives everything as one object.
+    An SVG chart is written back with its paints changed; for a PNG/JPEG chart a
+    recoloured preview goes to --output (default reports/) and the new palette to
+    stdout."""
+    _about(sources)
+    from .judge.charts import prepare
     from .read import read_sources
-    from .read.images import background_rgb
+    from .read.images import IMAGE_EXTENSIONS, background_rgb
     from .read.rewrite import write_back
     from .repair import repair
     from .report import render_repair
-    from .report.write import refuse_overwrite
+    from .report.write import check_target
 
     settings = _settings(**options)
+    chart = sources[0] if len(sources) == 1 and os.path.splitext(sources[0])[1].lower() in IMAGE_EXTENSIONS \
+        else None
+    # refuse a bad --output before the moves are explained on stderr
     if output is not None:
-        refuse_overwrite(output, sources)
+        from .errors import OutputError
+
+        if not output.strip():
+            raise OutputError("--output: an empty path")
+        if not output.endswith(("/", os.sep)) and not os.path.isdir(output):
+            check_target(output, sources)
+        elif os.path.lexists(folder := output.rstrip("/" + os.sep) or "/") and not os.path.isdir(folder):
+            raise OutputError(f"{output}: exists and is not a folder")
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
+    if chart is not None:
+        palette, settings = prepare(palette, settings, options.get("kind"),
+                                    settings.backgrounds if options.get("backgrounds") else ())
     result = repair(palette, settings, keep)
+    if chart is not None and getattr(palette, "reading", None) is not None:
+        _fix_chart(chart, palette.reading, result, fmt, output)
+        sys.exit(0 if result.passed else 1)
     # the palette as it came in: a lock from --keep is not written back
     text, name = write_back(sources, palette, result.palette.hexes)
     if fmt == "json":
         text, name = render_repair(result, "json"), f"{os.path.splitext(name)[0]}.json"
     else:
         click.echo(render_repair(result, "text", color=_use_color()), err=True, nl=False)
+    if output is None and sys.stdout.isatty():
+        text = _for_terminal(text)
     emit(text, output, sources, name)
     sys.exit(0 if result.passed else 1)
+
+
+def _fix_chart(chart: str, reading, result, fmt: str, output) -> None:
+    """``fix`` on a chart: an SVG rewritten with the new paints (read back to
+    confirm), or a recoloured preview of a raster chart next to the new palette."""
+    from .read.images import background_rgb
+    from .read.rewrite import palette_text
+    from .report import render_repair
+    from .report.chartfix import confirm_svg, fixed_svg, write_preview
+    from .report.facts import CAUTION
+    from .report.jsonout import json_text
+    from .report.write import output_path
+
+    stem = os.path.splitext(os.path.basename(chart))[0]
+    moves = result.moves
+    if fmt != "json":
+        click.echo(render_repair(result, "text", color=_use_color()), err=True, nl=False)
+    if chart.lower().endswith(".svg"):
+        text, changed = fixed_svg(chart, moves)
+        if moves:
+            confirm_svg(text, moves, reading.background, source=chart)
+        if fmt == "json":
+            text = json_text({**result.to_dict(), "paints_changed": changed, "caution": CAUTION})
+        if output is None and sys.stdout.isatty():
+            text = _for_terminal(text)
+        emit(text, output, (chart,), f"{stem}-fixed.{'json' if fmt == 'json' else 'svg'}")
+        return
+    preview = None
+    if moves:
+        preview = output_path(output if output is not None else "reports/", f"{stem}-fixed-preview.png")
+        lossy = chart.lower().endswith((".jpg", ".jpeg", ".jpe", ".webp"))
+        write_preview(chart, background_rgb(reading.background), moves, preview, lossy)
+        click.echo(f"palettecheck: {one_line(chart)}: wrote {one_line(preview)}, an approximate preview "
+                   "(pixels recoloured, not redrawn); re-export the chart with the new palette, "
+                   "printed on stdout", err=True)
+    fixed = result.palette
+    if fmt == "json":
+        out = {**result.to_dict(), "preview": None if preview is None else str(preview), "caution": CAUTION}
+        click.echo(json_text(out), nl=False)
+    else:
+        click.echo(_for_terminal(palette_text(fixed, "text")) if sys.stdout.isatty()
+                   else palette_text(fixed, "text"), nl=False)
+
+
+def _for_terminal(text: str) -> str:
+    """A file's text shown on a terminal: line by line, control characters stripped
+    (a palette file's comments could carry escape sequences). Redirected, the text
+    goes out byte for byte."""
+    return "".join(printable(line.rstrip("\r\n")) + "\n" for line in text.splitlines())
 
 
 @cli.command("simulate")
 @click.argument("image", type=click.Path())
 @click.option("--output", "-o", type=click.Path(file_okay=False), default="reports", show_default=True,
               help="Folder for <stem>-<vision>.png and <stem>-sheet.png (made if missing).")
-@click.option("--severity", type=click.FloatRange(0, 1), default=None,
+@click.option("--severity", type=finite(0, 1), default=None,
               help="CVD severity, 0-1 (default 1: dichromacy).")
 @click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
               help="CVD simulation model (default machado).")
@@ -352,6 +476,7 @@ def simulate_cmd(image, output, severity, cvd_model):
     """Show a chart image as each simulated vision sees it.
 
     Writes one PNG per vision plus a sheet of all of them side by side."""
+    _about((image,))
     from pathlib import Path
 
     from .errors import OutputError
@@ -364,11 +489,11 @@ def simulate_cmd(image, output, severity, cvd_model):
     except OSError as e:
         raise OutputError(f"{out}: cannot make the folder ({e.strerror or e})") from None
     for path in simulate_image(image, out, settings.severity, settings.cvd_model):
-        click.echo(str(path))
+        click.echo(one_line(path))
 
 
 def _fail(message: str, code: int = 2):
-    click.echo(f"palettecheck: {message}", err=True)
+    click.echo(f"palettecheck: {one_line(message)}", err=True)
     sys.exit(code)
 
 
@@ -383,13 +508,24 @@ def _hint(e: click.BadParameter) -> str:
 
 def main(argv=None) -> None:
     """Entry point: every error becomes one line on stderr, ``palettecheck: <what>:
-    <problem>``, and exit code 2."""
+    <problem>``, and exit code 2. Anything unexpected is caught by the final guard:
+    ``palettecheck: <input or command>: internal error: <type>`` (the traceback only
+    with ``--debug``), so a user never sees a traceback."""
+    import warnings
+
+    _RUN.update(debug=False, subject="palettecheck")
+    restore = _on_signals()
     try:
-        rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
+        with warnings.catch_warnings():
+            # a library's warning is no message for the user (one line per error);
+            # --debug shows them
+            if not _wants_debug(argv):
+                warnings.simplefilter("ignore")
+            rv = cli.main(args=argv, prog_name="palettecheck", standalone_mode=False)
     except PalettecheckError as e:
         _fail(str(e), e.exit_code)
-    except click.exceptions.Abort:
-        _fail("aborted")
+    except (click.exceptions.Abort, KeyboardInterrupt, _Interrupted):
+        _fail(f"{_RUN['subject']}: interrupted")
     except click.MissingParameter as e:
         _fail(e.format_message())
     except click.BadParameter as e:
@@ -398,5 +534,94 @@ def main(argv=None) -> None:
     except click.ClickException as e:
         _fail(e.format_message())
     except BrokenPipeError:
+        _quiet_stdout()
         sys.exit(1)
+    except MemoryError:
+        _fail(f"{_RUN['subject']}: not enough memory")
+    except RecursionError:
+        _fail(f"{_RUN['subject']}: input nested too deeply")
+    except Exception as e:  # noqa: BLE001 - the final guard
+        if _RUN["debug"]:
+            import traceback
+
+            traceback.print_exc()
+        _fail(f"{_RUN['subject']}: internal error: {type(e).__name__}")
+    finally:
+        restore()
     sys.exit(rv if isinstance(rv, int) else 0)
+
+
+def _wants_debug(argv) -> bool:
+    args = sys.argv[1:] if argv is None else list(argv)
+    for a in args:
+        if a == "--debug":
+            return True
+        if not a.startswith("-"):
+            return False  # the command: --debug is a group option
+    return False
+
+
+def _quiet_stdout() -> None:
+    """After a closed pipe, send what Python still flushes at exit nowhere."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError):
+        pass
+
+
+class _Interrupted(BaseException):
+    """Ctrl-C. Not a KeyboardInterrupt, which click answers with a blank line first."""
+
+
+def _on_signals():
+    """SIGTERM and SIGHUP remove the temporary file of a write in progress and stop
+    the scan's worker processes, then end the process by the same signal (so a
+    shell sees how it ended); SIGINT unwinds (the writer removes its temporary file,
+    the scan stops its workers) to one line and exit 2. Returns a function restoring
+    the previous handlers."""
+    import signal
+
+    def interrupt(signum, frame):
+        raise _Interrupted()
+
+    def stop(signum, frame):
+        from .report.write import remove_temporaries
+
+        remove_temporaries()
+        _stop_children()
+        signal.signal(signum, signal.SIG_DFL)
+        os.kill(os.getpid(), signum)
+
+    previous = {}
+    try:
+        if signal.getsignal(signal.SIGINT) is signal.default_int_handler:  # not ignored
+            previous[signal.SIGINT] = signal.signal(signal.SIGINT, interrupt)
+    except (ValueError, OSError):  # not the main thread
+        pass
+    for name in ("SIGTERM", "SIGHUP"):
+        sig = getattr(signal, name, None)
+        if sig is None:
+            continue
+        try:
+            previous[sig] = signal.signal(sig, stop)
+        except (ValueError, OSError):  # not the main thread
+            pass
+
+    def restore() -> None:
+        for sig, handler in previous.items():
+            try:
+                signal.signal(sig, handler if handler is not None else signal.SIG_DFL)
+            except (ValueError, OSError, TypeError):
+                pass
+
+    return restore
+
+
+def _stop_children() -> None:
+    if "multiprocessing" not in sys.modules:
+        return
+    import multiprocessing
+
+    for child in multiprocessing.active_children():
+        child.kill()

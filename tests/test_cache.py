@@ -6,7 +6,12 @@ import sqlite3
 
 from helpers import draw, save
 
-from palettecheck.read.cache import ReadingCache, file_digest, reading_from_json, reading_to_json
+from palettecheck.read.cache import (
+    ReadingCache,
+    file_digest,
+    reading_from_json,
+    reading_to_json,
+)
 from palettecheck.read.images import read_image
 
 

@@ -33,7 +33,7 @@ from ..read.images import background_rgb, find_images, read_image
 from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
-           "default_jobs"]
+           "default_jobs", "available_cores", "capped_jobs"]
 
 @dataclass
 class ImageCheck:
@@ -151,11 +151,27 @@ def _warm() -> None:
     check_palette(make_palette([("#1f6f8b", None, False), ("#d9a23b", None, False)]), Settings())
 
 
-def default_jobs() -> int:
+def available_cores() -> int:
+    """Cores this process may run on (its CPU affinity on Linux)."""
     try:
         return max(1, len(os.sched_getaffinity(0)))
     except AttributeError:  # not Linux
         return max(1, os.cpu_count() or 1)
+
+
+def default_jobs() -> int:
+    """One process per available core; 1 inside a daemonic process, which may not
+    start processes of its own."""
+    import multiprocessing as mp
+
+    if mp.current_process().daemon:
+        return 1
+    return available_cores()
+
+
+def capped_jobs(jobs: int | None) -> int:
+    """``jobs`` capped at the cores available (and at 1 inside a daemonic process)."""
+    return min(jobs or default_jobs(), default_jobs())
 
 
 def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
@@ -177,7 +193,7 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
     backgrounds = tuple(backgrounds)
     files, errors = find_images(paths)
     job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius)
-    jobs = min(jobs or default_jobs(), max(1, len(files)))
+    jobs = min(capped_jobs(jobs), max(1, len(files)))
     results = {}
     if jobs <= 1:
         for n, f in enumerate(files, 1):
@@ -198,6 +214,49 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
     return report
 
 
+#: <linux/prctl.h>: the signal a process gets when the thread that forked it ends
+#: [LinuxPrctl]. Cleared in a fork's child, so each worker sets it itself.
+_PR_SET_PDEATHSIG = 1
+
+
+def _worker_start(parent: int) -> None:
+    """Pool initializer: a worker dies with the scan that started it.
+
+    On Linux the kernel sends SIGKILL to the worker when its parent dies
+    (PR_SET_PDEATHSIG), even if the parent is killed with SIGKILL; elsewhere a
+    watchdog thread ends the worker once its parent is gone. Ctrl-C goes to the
+    whole process group: the parent handles it, so the worker ignores SIGINT.
+    """
+    import signal
+    import sys
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    for name in ("SIGTERM", "SIGHUP"):
+        if hasattr(signal, name):
+            signal.signal(getattr(signal, name), signal.SIG_DFL)
+    armed = False
+    if sys.platform.startswith("linux"):
+        try:
+            import ctypes
+
+            libc = ctypes.CDLL(None, use_errno=True)
+            armed = libc.prctl(_PR_SET_PDEATHSIG, int(signal.SIGKILL), 0, 0, 0) == 0
+        except (OSError, AttributeError):
+            armed = False
+    if os.getppid() != parent:  # the parent died before the signal was armed
+        os._exit(1)
+    if not armed:
+        import threading
+        import time
+
+        def watch() -> None:
+            while os.getppid() == parent:
+                time.sleep(0.5)
+            os._exit(1)
+
+        threading.Thread(target=watch, daemon=True, name="palettecheck-parent-watch").start()
+
+
 def _in_pool(files: list[str], job: _Job, jobs: int, progress) -> dict:
     import multiprocessing as mp
     from concurrent.futures import ProcessPoolExecutor, as_completed
@@ -207,7 +266,10 @@ def _in_pool(files: list[str], job: _Job, jobs: int, progress) -> dict:
     methods = mp.get_all_start_methods()
     ctx = mp.get_context("fork" if "fork" in methods else None)
     results = {}
-    with ProcessPoolExecutor(max_workers=jobs, mp_context=ctx) as pool:
+    before = set(mp.active_children())
+    pool = ProcessPoolExecutor(max_workers=jobs, mp_context=ctx, initializer=_worker_start,
+                               initargs=(os.getpid(),))
+    try:
         futures = {pool.submit(_one, f, job): f for f in files}
         for n, fut in enumerate(as_completed(futures), 1):
             f = futures[fut]
@@ -217,6 +279,13 @@ def _in_pool(files: list[str], job: _Job, jobs: int, progress) -> dict:
                 results[f] = (f, None, f"{f}: the worker reading it stopped (out of memory?)")
             if progress:
                 progress(n, len(files))
+    except BaseException:
+        # interrupted (Ctrl-C, a signal turned exception): stop now, not after every file
+        pool.shutdown(wait=False, cancel_futures=True)
+        for child in set(mp.active_children()) - before:  # this pool's workers only
+            child.kill()
+        raise
+    pool.shutdown(wait=True)
     return results
 
 

@@ -80,6 +80,7 @@ class DisplayReview:
     colors: list[DisplayColor]
     findings: list[DisplayFinding]
     errors: list[tuple[str, str]] = field(default_factory=list)
+    sources: list[str] = field(default_factory=list)  #: the files read
 
     @property
     def passed(self) -> bool:
@@ -295,4 +296,6 @@ def review_paths(paths, settings: Settings | None = None, *, whole: bool = False
         for reading in readings:
             checks.append(check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
                                       include_neutrals=include_neutrals))
-    return review_display(checks, settings, approved=approved, errors=errors)
+    review = review_display(checks, settings, approved=approved, errors=errors)
+    review.sources = [str(f) for f in files]
+    return review

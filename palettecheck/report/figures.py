@@ -9,20 +9,19 @@ by side with their names; each is written through a temporary file and a rename.
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 import numpy as np
 
-from ..errors import OutputError, ReadError
+from ..errors import OutputError, ReadError, printable
 from ..perceive.vision import simulate
 from ..read.raster import apply_icc, open_image
 from ..terms import VISION_TITLES, VISIONS
-from .write import write_atomic_with
+from .write import check_target, write_atomic_with
 
-__all__ = ["simulate_image", "simulated_views"]
+__all__ = ["simulate_image", "simulated_views", "decode_raster"]
 
-def _decode(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
+def decode_raster(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
     """sRGB ``(h, w, 3)`` uint8 pixels and alpha (or None) of a raster image."""
     notes: list = []
     with open_image(path) as im:
@@ -54,16 +53,16 @@ def simulated_views(pixels: np.ndarray, severity: float = 1.0, method: str = "ma
     return out
 
 
-def _save_png(array: np.ndarray, alpha, path: Path) -> None:
+def _save_png(array: np.ndarray, alpha, path: Path, inputs=()) -> None:
     from PIL import Image
 
     im = Image.fromarray(array, "RGB")
     if alpha is not None:
         im.putalpha(Image.fromarray(alpha, "L"))
-    write_atomic_with(path, lambda tmp: im.save(tmp, format="PNG"), ".png")
+    write_atomic_with(path, lambda tmp: im.save(tmp, format="PNG"), ".png", inputs)
 
 
-def _sheet(views: dict, path: Path, title: str) -> None:
+def _sheet(views: dict, path: Path, title: str, inputs=()) -> None:
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
 
@@ -80,7 +79,7 @@ def _sheet(views: dict, path: Path, title: str) -> None:
         ax.imshow(arr, interpolation="lanczos")
         ax.set_title(VISION_TITLES[vision], fontsize=9)
         ax.set_axis_off()
-    write_atomic_with(path, lambda tmp: fig.savefig(tmp, format="png"), ".png")
+    write_atomic_with(path, lambda tmp: fig.savefig(tmp, format="png"), ".png", inputs)
 
 
 def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado") -> list[Path]:
@@ -93,20 +92,19 @@ def simulate_image(path, out_dir, severity: float = 1.0, method: str = "machado"
     path, out_dir = Path(path), Path(out_dir)
     if path.suffix.lower() == ".svg":
         raise ReadError(f"{path}: simulate reads raster images; export the SVG as PNG first")
-    pixels, alpha, _ = _decode(path)
+    pixels, alpha, _ = decode_raster(path)
     if not out_dir.is_dir():
         raise OutputError(f"{out_dir}: not a folder")
     targets = {v: out_dir / f"{path.stem}-{v}.png" for v in VISIONS}
     targets["sheet"] = out_dir / f"{path.stem}-sheet.png"
     for t in targets.values():
-        if t.exists() and os.path.samefile(t, path):
-            raise OutputError(f"{t}: is the input image; refusing to write over it")
+        check_target(t, (path,))
     views = simulated_views(pixels, severity, method)
     try:
         for vision, arr in views.items():
-            _save_png(arr, alpha, targets[vision])
+            _save_png(arr, alpha, targets[vision], (path,))
         sev = "" if severity == 1 else f", severity {severity:g}"
-        _sheet(views, targets["sheet"], f"{path.name}: simulated with {method.capitalize()}{sev}")
+        _sheet(views, targets["sheet"], f"{printable(path.name)}: simulated with {method.capitalize()}{sev}", (path,))
     except OutputError:
         raise
     except OSError as e:

@@ -3,14 +3,13 @@ snippet, or a design-system / plotting-library file (:mod:`.palette_formats`).""
 
 from __future__ import annotations
 
-import json
-
 import numpy as np
 
 from ..perceive.names import color_names
 from ..terms import GENERATE_FORMATS as FORMATS
 from .contract import stamp
 from .facts import CAUTION
+from .jsonout import json_text
 from .palette_formats import PALETTE_FORMATS, render_palette
 from .text import render_text
 
@@ -35,7 +34,7 @@ def render_generated(gen, fmt: str, color: bool = False) -> str:
     if fmt in PALETTE_FORMATS:
         return render_palette(fmt, gen.kind, gen.colors, color_names(gen.colors), summary)
     if fmt == "json":
-        return json.dumps(stamp("generate", {**gen.to_dict(), "caution": CAUTION}), indent=2, ensure_ascii=False) + "\n"
+        return json_text(stamp("generate", {**gen.to_dict(), "caution": CAUTION}))
     if fmt == "hex":
         lines = [f"# {gen.kind} palette from palettecheck: {summary}"]
         lines += [f"# {line}" for line in gen.explanation]

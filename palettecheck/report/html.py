@@ -19,6 +19,7 @@ from html import escape
 import numpy as np
 
 from ..color import parse_color
+from ..errors import printable
 from ..perceive.vision import simulate
 from ..perceive.wcag import contrast_ratio
 from ..terms import SEVERITY_TITLES, VERSION, VISION_TITLES, VISIONS
@@ -118,7 +119,7 @@ footer { margin-top: 40px; color: var(--muted); font-size: 0.85em; }
 
 
 def _e(text) -> str:
-    return escape(str(text), quote=True)
+    return escape(printable(text), quote=True)
 
 
 def _css_hex(hex_: str) -> str:

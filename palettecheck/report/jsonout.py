@@ -1,11 +1,37 @@
-"""JSON output: the stable keys of DESIGN.md, plus the caution."""
+"""JSON output: the stable keys of DESIGN.md, plus the caution.
+
+Every JSON document palettecheck prints goes through :func:`json_text`: strict JSON
+(a value that is not finite becomes ``null``, never ``NaN``/``Infinity``), and the
+characters a terminal could act on (DEL, C1 controls, bidi overrides, lone
+surrogates) written as ``\\u`` escapes, which JSON readers decode to the same string.
+"""
 
 from __future__ import annotations
 
 import json
+import math
 
+from ..errors import json_escapes
 from .contract import stamp
 from .facts import CAUTION
+
+__all__ = ["json_text", "result_dict", "render_json"]
+
+
+def _finite(node):
+    if isinstance(node, float):
+        return node if math.isfinite(node) else None
+    if isinstance(node, dict):
+        return {k: _finite(v) for k, v in node.items()}
+    if isinstance(node, (list, tuple)):
+        return [_finite(v) for v in node]
+    return node
+
+
+def json_text(obj) -> str:
+    """``obj`` as indented, strict JSON text ending in a newline."""
+    text = json.dumps(_finite(obj), indent=2, ensure_ascii=False, allow_nan=False)
+    return json_escapes(text) + "\n"
 
 
 def result_dict(result) -> dict:
@@ -14,4 +40,4 @@ def result_dict(result) -> dict:
 
 
 def render_json(result) -> str:
-    return json.dumps(result_dict(result), indent=2, ensure_ascii=False) + "\n"
+    return json_text(result_dict(result))

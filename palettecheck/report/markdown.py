@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import re
 
+from ..errors import printable
 from ..terms import SEVERITY_TITLES
 from .facts import (
     CAUTION,
@@ -31,7 +32,7 @@ def md_escape(text, start: bool = False) -> str:
     """``text`` safe in a Markdown table cell or paragraph: one line, with inline markup
     (``|`` included) backslash-escaped. ``start``: the text opens a block (a list
     item's text), so a leading ``#``, ``-``, ``+`` or ``1.`` is escaped too."""
-    text = _SPECIAL.sub(r"\\\1", " ".join(str(text).split()))
+    text = _SPECIAL.sub(r"\\\1", " ".join(printable(text).split()))
     m = _LEADING.match(text) if start else None
     if m:
         k = m.end() - 1 if m.group()[0].isdigit() else 0  # 12\. or \# / \-

@@ -3,11 +3,12 @@ HTML scan pages are in their own modules)."""
 
 from __future__ import annotations
 
-import json
 import shutil
 
+from ..errors import printable
 from .contract import stamp
 from .facts import CAUTION, colors_summary, main_problem
+from .jsonout import json_text
 
 __all__ = ["render_table", "render_scan_json", "render_scan_text"]
 
@@ -19,11 +20,11 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
     """The summary table; ``width`` (a terminal's) shortens long problems and paths."""
     rows = []
     for c in report.images:
-        rows.append((c.path, c.reading.background, colors_summary(c), str(c.result.score.value),
-                     "pass" if c.passed else "FAIL", main_problem(c)))
+        rows.append((printable(c.path), c.reading.background, colors_summary(c), str(c.result.score.value),
+                     "pass" if c.passed else "FAIL", printable(main_problem(c))))
     for path, message in report.errors:
         problem = message[len(path) + 2:] if message.startswith(f"{path}: ") else message
-        rows.append((path, "-", "-", "-", "unread", problem))
+        rows.append((printable(path), "-", "-", "-", "unread", printable(problem)))
     head = ("chart", "background", "colours", "score", "result", "main problem")
     cols = [max([len(head[k])] + [len(r[k]) for r in rows]) for k in range(5)]
     if width:
@@ -45,7 +46,7 @@ def render_table(report, color: bool = False, width: int | None = None) -> str:
 
 
 def render_scan_json(report) -> str:
-    return json.dumps(stamp("scan", {**report.to_dict(), "caution": CAUTION}), indent=2, ensure_ascii=False) + "\n"
+    return json_text(stamp("scan", {**report.to_dict(), "caution": CAUTION}))
 
 
 def render_scan_text(report, color: bool = False) -> str:

@@ -1,7 +1,12 @@
-"""Terminal output: a compact table, truecolor swatches when asked for."""
+"""Terminal output: a compact table, truecolor swatches when asked for.
+
+Every user-supplied string (source, names, messages that quote them) passes
+:func:`palettecheck.errors.printable` here, so no escape sequence from a palette file
+reaches the terminal."""
 
 from __future__ import annotations
 
+from ..errors import printable
 from .facts import CAUTION, color_facts, ratio_text
 
 _MARK = {"error": "x", "warning": "!", "info": "-"}
@@ -25,7 +30,7 @@ def color_rows(result, color: bool) -> list[str]:
     """One row per colour: swatch, hex, name, contrast per background, closest
     neighbour and under which vision."""
     s = result.settings
-    names = [w.name or "" for w in result.palette]
+    names = [printable(w.name or "") for w in result.palette]
     width = max([len(x) for x in names] + [4])
     bgs = "  ".join(f"vs {b:<7}" for b in s.backgrounds)
     lines = [f"  {'#':>2}  {'':{5 if color else 0}}{'colour':8} {'name':{width}}  {bgs}  closest (ΔE', vision)"]
@@ -43,7 +48,7 @@ def render_text(result, color: bool = False) -> str:
     counts = {sev: sum(f.severity == sev for f in result.findings) for sev in ("error", "warning")}
     verdict = _paint("PASS", "ok", color) if result.passed else _paint("FAIL", "error", color)
     head = [
-        f"{result.palette.source or 'palette'}: {len(result.palette)} colour(s), {s.kind}, {s.mark} marks, "
+        f"{printable(result.palette.source or 'palette')}: {len(result.palette)} colour(s), {s.kind}, {s.mark} marks, "
         f"background {', '.join(s.backgrounds)}",
         f"score {sc.value}/100  {verdict}  ({counts['error']} error(s), {counts['warning']} warning(s))",
         f"thresholds: ΔE' error below {s.error_delta_e:.1f}"
@@ -56,13 +61,14 @@ def render_text(result, color: bool = False) -> str:
     body = color_rows(result, color)
     findings = [""]
     for f in result.findings:
-        findings.append(_paint(f"  {_MARK[f.severity]} {f.severity:7} {f.check:15} ", f.severity, color) + f.message)
+        findings.append(_paint(f"  {_MARK[f.severity]} {f.severity:7} {f.check:15} ", f.severity, color)
+                        + printable(f.message))
     if len(findings) == 1:
         findings.append("  no findings")
     score_lines = ["", "score: " + "; ".join(sc.explain())]
     if result.suggestions:
         score_lines.append("suggestions:")
-        score_lines += [f"  {x['text'] if isinstance(x, dict) else x}" for x in result.suggestions]
+        score_lines += [f"  {printable(x['text'] if isinstance(x, dict) else x)}" for x in result.suggestions]
     elif not result.passed:
         score_lines.append("for the smallest repair: palettecheck fix (or check --suggest)")
     return "\n".join(head + body + findings + score_lines + ["", CAUTION, ""])
