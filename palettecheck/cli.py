@@ -22,6 +22,7 @@ from .terms import (
     RAMP_KINDS,
     REPORT_EXTENSIONS,
     REPORT_FORMATS,
+    SCAN_FORMATS,
 )
 
 
@@ -228,10 +229,17 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
 @click.option("--palette", "approved", metavar="SOURCE", default=None,
               help="With --together: the approved palette (any palette file); other colours are errors.")
 @click.option("--whole", is_flag=True, help="With --together: read each image as one chart, never split it.")
+@click.option("--cache", "cache_path", type=click.Path(dir_okay=False), default=None, metavar="FILE",
+              help="Remember chart readings in FILE (SQLite), keyed by content: unchanged charts are not "
+                   "read again on the next scan (their colours are still checked).")
+@click.option("--engine", type=click.Choice(["local", "dask"]), default="local", show_default=True,
+              help="Where charts are read: local processes (--jobs), or a Dask cluster (--scheduler).")
+@click.option("--scheduler", metavar="ADDRESS", default=None,
+              help="With --engine dask: the cluster's scheduler address (tcp://host:8786).")
 @baseline_options
-@common_options(formats=REPORT_FORMATS, format_help=REPORT_HELP)
-def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, approved, whole, baseline,
-             write_baseline, backgrounds, kind, fmt, output, **options):
+@common_options(formats=SCAN_FORMATS, format_help=REPORT_HELP[:-2] + "; jsonl streams one chart per line.")
+def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, approved, whole, cache_path, engine,
+             scheduler, baseline, write_baseline, backgrounds, kind, fmt, output, **options):
     """Check the colours of every chart image under PATHS.
 
     Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
@@ -253,11 +261,18 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
         click.echo(f"palettecheck: --jobs {jobs}: capped at {capped_jobs(jobs)}, the cores available"
                    + ("" if capped_jobs(jobs) == available_cores() else " to a daemonic process"), err=True)
         jobs = capped_jobs(jobs)
-    progress = _progress_bar() if sys.stderr.isatty() else None
-    report = scan(paths, settings, jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
-                  include_neutrals=include_neutrals, progress=progress,
-                  min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
-                  merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+    if (engine == "dask") != bool(scheduler):
+        raise click.UsageError("--engine dask needs --scheduler ADDRESS" if scheduler is None
+                               else "--scheduler goes with --engine dask")
+    run = dict(jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
+               include_neutrals=include_neutrals, min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
+               merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+    with _scan_resources(cache_path, scheduler) as (cache, client):
+        if fmt == "jsonl":
+            if baseline or write_baseline:
+                raise click.UsageError("--format jsonl streams charts as they finish; baselines need a whole report")
+            _stream_scan(paths, settings, run, cache, client, output)
+        report = scan(paths, settings, progress=_progress_bar(), cache=cache, client=client, **run)
     # never over any file read in this run, found inside folders included
     read = [*paths, *(c.path for c in report.images), *(p for p, _ in report.errors)]
     if write_baseline:
@@ -303,12 +318,97 @@ def _review(paths, settings, approved, whole, kind, backgrounds, include_neutral
     sys.exit(review.exit_code)
 
 
+class _scan_resources:
+    """The reading cache and the Dask client of a scan, closed when it ends."""
+
+    def __init__(self, cache_path, scheduler):
+        self.cache_path, self.scheduler = cache_path, scheduler
+        self.cache = self.client = None
+
+    def __enter__(self):
+        if self.cache_path:
+            from .read.cache import ReadingCache
+
+            self.cache = ReadingCache(self.cache_path)
+        if self.scheduler:
+            try:
+                from distributed import Client
+            except ImportError:
+                raise click.UsageError("--engine dask needs the dask extra: pip install 'palettecheck[dask]'") from None
+            try:
+                self.client = Client(self.scheduler, timeout=10)
+            except OSError as e:
+                raise click.UsageError(f"--scheduler {self.scheduler}: cannot reach it ({e})") from None
+        return self.cache, self.client
+
+    def __exit__(self, *exc):
+        if self.cache is not None:
+            self.cache.close()
+        if self.client is not None:
+            self.client.close()
+
+
+def _stream_scan(paths, settings, run, cache, client, output):
+    """scan --format jsonl: one line per chart as it finishes, constant memory."""
+    from .judge.charts import iter_checks
+    from .read.images import find_images
+    from .report.scan import jsonl_lines
+
+    files, errors = find_images(paths)
+    if not files and not errors:
+        raise click.UsageError(f"no chart images found in {', '.join(paths)}")
+    failed = []
+
+    def results():
+        progress = _progress_bar()
+        for n, item in enumerate(iter_checks(files, settings, cache=cache, client=client, **run), 1):
+            if item[2]:
+                failed.append(item)
+                click.echo(f"palettecheck: {one_line(item[2])}", err=True)
+            elif not item[1].passed:
+                failed.append(item)
+            if progress:
+                progress(n, len(files))
+            yield item
+
+    lines = jsonl_lines(results(), errors)
+    if output is None:
+        for line in lines:
+            click.echo(line, nl=False)
+    else:
+        from .config import find_pyproject
+        from .report.write import output_path, write_atomic_with
+
+        path = output_path(output, "scan.jsonl")
+
+        def save(tmp):
+            with open(tmp, "w", encoding="utf-8") as f:
+                f.writelines(lines)
+
+        config = find_pyproject()
+        write_atomic_with(path, save, inputs=[*paths, *map(str, files), *([config] if config else [])])
+        click.echo(f"wrote {one_line(path)}", err=True)
+    unreadable = bool(errors) or any(item[2] for item in failed)
+    sys.exit(2 if unreadable else 1 if failed else 0)
+
+
 def _progress_bar():
-    """A one-line counter on stderr, cleared when done."""
+    """A progress bar on stderr when it is a terminal (tqdm), shown once a scan has
+    run for two seconds; None otherwise."""
+    if not sys.stderr.isatty():
+        return None
+    from tqdm import tqdm
+
+    bar = None
+
     def show(done: int, total: int) -> None:
-        click.echo(f"\rreading charts {done}/{total}", err=True, nl=False)
+        nonlocal bar
+        if bar is None:
+            bar = tqdm(total=total, unit="chart", desc="reading charts", delay=2.0, leave=False,
+                       file=sys.stderr)
+        bar.update(done - bar.n)
         if done == total:
-            click.echo("\r" + " " * 40 + "\r", err=True, nl=False)
+            bar.close()
     return show
 
 

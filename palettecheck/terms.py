@@ -16,7 +16,7 @@ __all__ = [
     "VERSION", "KINDS", "RAMP_KINDS", "MARKS", "VISIONS", "CVD_VISIONS", "DEFAULT_VISIONS", "GREY_VISION",
     "VISION_LABELS", "VISION_TITLES", "CVD_MODELS", "SURROUNDS", "ERROR", "WARNING", "INFO",
     "SEVERITIES", "SEVERITY_TITLES", "REPORT_FORMATS", "REPORT_EXTENSIONS", "GENERATE_FORMATS",
-    "GENERATE_EXTENSIONS", "RASTER_EXTENSIONS", "IMAGE_EXTENSIONS", "finding_id",
+    "GENERATE_EXTENSIONS", "SCAN_EXTENSIONS", "SCAN_FORMATS", "RASTER_EXTENSIONS", "IMAGE_EXTENSIONS", "finding_id",
 ]
 
 #: Data scales a palette can encode; the first is the default.
@@ -58,6 +58,9 @@ SEVERITY_TITLES = {ERROR: "Errors", WARNING: "Warnings", INFO: "Notes"}
 REPORT_EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html", "junit": "xml",
                      "sarif": "sarif"}
 REPORT_FORMATS = tuple(REPORT_EXTENSIONS)
+#: scan also streams JSON Lines: one chart per line, written as each finishes.
+SCAN_EXTENSIONS = {**REPORT_EXTENSIONS, "jsonl": "jsonl"}
+SCAN_FORMATS = tuple(SCAN_EXTENSIONS)
 #: Output formats of ``generate``, with the file suffix of each.
 #: The design-system and plotting-library formats name each colour too.
 GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py",

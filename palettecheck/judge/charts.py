@@ -33,7 +33,7 @@ from ..read.images import background_rgb, find_images, read_image
 from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
-           "default_jobs", "available_cores", "capped_jobs"]
+           "default_jobs", "available_cores", "capped_jobs", "iter_checks"]
 
 @dataclass
 class ImageCheck:
@@ -176,7 +176,7 @@ def capped_jobs(jobs: int | None) -> int:
 
 def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
          include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-         merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None) -> ScanReport:
+         merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None, cache=None, client=None) -> ScanReport:
     """Read and check every chart under ``paths`` (files and folders).
 
     :param jobs: processes to use (default: one per core); 1 works in this process.
@@ -185,33 +185,83 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
     :param backgrounds: extra backgrounds to check against; the first is what
         transparent images are composited over.
     :param progress: called as ``progress(done, total)`` after each file.
+    :param cache: a :class:`palettecheck.read.cache.ReadingCache`: charts whose bytes
+        it has seen are not read again (their colours are checked afresh).
+    :param client: a ``dask.distributed.Client``: the charts are read and checked on
+        its cluster instead of local processes (``jobs`` is then ignored).
     :returns: a :class:`ScanReport`; files that could not be read are in ``errors``.
     """
     if isinstance(paths, (str, os.PathLike)):
         paths = [paths]
-    settings = settings or Settings()
-    backgrounds = tuple(backgrounds)
     files, errors = find_images(paths)
-    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius)
-    jobs = min(capped_jobs(jobs), max(1, len(files)))
-    results = {}
-    if jobs <= 1:
-        for n, f in enumerate(files, 1):
-            results[str(f)] = _one(str(f), job)
-            if progress:
-                progress(n, len(files))
-    else:
-        results = _in_pool([str(f) for f in files], job, jobs, progress)
     report = ScanReport(errors=list(errors))
+    results = {}
+    for n, (path, check, error) in enumerate(iter_checks(files, settings, jobs=jobs, kind=kind,
+                                                         backgrounds=backgrounds,
+                                                         include_neutrals=include_neutrals,
+                                                         min_share=min_share, merge_radius=merge_radius,
+                                                         cache=cache, client=client), 1):
+        results[path] = (check, error)
+        if progress:
+            progress(n, len(files))
     for f in files:
-        path, check, error = results[str(f)]
+        check, error = results[str(f)]
         if error:
-            report.errors.append((path, error))
+            report.errors.append((str(f), error))
         else:
             report.images.append(check)
     order = {str(f): i for i, f in enumerate(files)}
     report.errors.sort(key=lambda e: order.get(e[0], -1))
     return report
+
+
+def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
+                include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
+                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None):
+    """Read and check chart files, yielding ``(path, ImageCheck or None, error or None)``
+    for each as it finishes (not in file order), holding only the charts in flight:
+    the memory of a scan of millions of charts stays flat when the caller does not
+    keep them (``scan --format jsonl``). Arguments as for :func:`scan`."""
+    settings = settings or Settings()
+    backgrounds = tuple(backgrounds)
+    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius)
+    todo, keys = [], {}
+    fallback = backgrounds[0] if backgrounds else settings.backgrounds[0]
+    for f in map(str, files):
+        if cache is not None:
+            try:
+                from ..read.cache import file_digest
+
+                key = cache.key(file_digest(f), {"min_share": min_share, "merge_radius": merge_radius,
+                                                 "background": fallback})
+            except OSError:
+                key = None  # unreadable: _one says why
+            reading = cache.get(key) if key else None
+            if reading is not None:
+                yield f, check_image(reading, settings, kind=kind, backgrounds=backgrounds,
+                                     include_neutrals=include_neutrals), None
+                continue
+            keys[f] = key
+        todo.append(f)
+    if client is not None:
+        source = _on_cluster(client, todo, job)
+    else:
+        workers = min(capped_jobs(jobs), max(1, len(todo)))
+        source = (_one(f, job) for f in todo) if workers <= 1 else _in_pool(todo, job, workers)
+    for path, check, error in source:
+        if cache is not None and check is not None and keys.get(path):
+            cache.put(keys[path], check.reading)
+        yield path, check, error
+
+
+def _on_cluster(client, files: list[str], job: _Job):
+    """Results of :func:`_one` computed on a Dask cluster, as they finish."""
+    from distributed import as_completed
+
+    futures = client.map(_one, files, job=job, pure=False)
+    for fut in as_completed(futures):
+        yield fut.result()
+        fut.release()
 
 
 #: <linux/prctl.h>: the signal a process gets when the thread that forked it ends
@@ -257,28 +307,39 @@ def _worker_start(parent: int) -> None:
         threading.Thread(target=watch, daemon=True, name="palettecheck-parent-watch").start()
 
 
-def _in_pool(files: list[str], job: _Job, jobs: int, progress) -> dict:
+def _in_pool(files: list[str], job: _Job, jobs: int):
+    """Results of :func:`_one` from ``jobs`` worker processes, as they finish; at most
+    four files per worker are in flight, so the memory held does not grow with the
+    number of files."""
     import multiprocessing as mp
-    from concurrent.futures import ProcessPoolExecutor, as_completed
+    from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
     from concurrent.futures.process import BrokenProcessPool
 
     _warm()  # forked workers inherit the imports and caches
     methods = mp.get_all_start_methods()
     ctx = mp.get_context("fork" if "fork" in methods else None)
-    results = {}
     before = set(mp.active_children())
     pool = ProcessPoolExecutor(max_workers=jobs, mp_context=ctx, initializer=_worker_start,
                                initargs=(os.getpid(),))
+    queue = iter(files)
+    pending: dict = {}
     try:
-        futures = {pool.submit(_one, f, job): f for f in files}
-        for n, fut in enumerate(as_completed(futures), 1):
-            f = futures[fut]
-            try:
-                results[f] = fut.result()
-            except BrokenProcessPool:
-                results[f] = (f, None, f"{f}: the worker reading it stopped (out of memory?)")
-            if progress:
-                progress(n, len(files))
+        for f in queue:
+            pending[pool.submit(_one, f, job)] = f
+            if len(pending) >= 4 * jobs:
+                break
+        while pending:
+            done, _ = wait(pending, return_when=FIRST_COMPLETED)
+            for fut in done:
+                f = pending.pop(fut)
+                try:
+                    result = fut.result()
+                except BrokenProcessPool:
+                    result = (f, None, f"{f}: the worker reading it stopped (out of memory?)")
+                nxt = next(queue, None)
+                if nxt is not None:
+                    pending[pool.submit(_one, nxt, job)] = nxt
+                yield result
     except BaseException:
         # interrupted (Ctrl-C, a signal turned exception): stop now, not after every file
         pool.shutdown(wait=False, cancel_futures=True)
@@ -286,7 +347,6 @@ def _in_pool(files: list[str], job: _Job, jobs: int, progress) -> dict:
             child.kill()
         raise
     pool.shutdown(wait=True)
-    return results
 
 
 def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | None = None, backgrounds=(),

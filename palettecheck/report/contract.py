@@ -18,7 +18,7 @@ __all__ = ["SCHEMA_IDS", "stamp", "load_schema"]
 
 #: The ``$id`` of each output's schema, and the ``$schema`` of each output.
 SCHEMA_IDS = {kind: f"urn:palettecheck:schema:{kind}:1"
-              for kind in ("check", "scan", "generate", "fix", "baseline")}
+              for kind in ("check", "scan", "scan-line", "generate", "fix", "baseline")}
 
 
 def _with_ids(check: dict) -> dict:

@@ -28,9 +28,10 @@ def _finite(node):
     return node
 
 
-def json_text(obj) -> str:
-    """``obj`` as indented, strict JSON text ending in a newline."""
-    text = json.dumps(_finite(obj), indent=2, ensure_ascii=False, allow_nan=False)
+def json_text(obj, indent: int | None = 2) -> str:
+    """``obj`` as strict JSON text ending in a newline: indented, or on one line when
+    ``indent`` is None (JSON Lines)."""
+    text = json.dumps(_finite(obj), indent=indent, ensure_ascii=False, allow_nan=False)
     return json_escapes(text) + "\n"
 
 

@@ -10,7 +10,7 @@ from .contract import stamp
 from .facts import CAUTION, colors_summary, main_problem
 from .jsonout import json_text
 
-__all__ = ["render_table", "render_scan_json", "render_scan_text"]
+__all__ = ["render_table", "render_scan_json", "render_scan_text", "jsonl_lines"]
 
 def _fit(text: str, width: int | None) -> str:
     return text if width is None or len(text) <= width else text[: max(1, width - 1)] + "…"
@@ -53,3 +53,24 @@ def render_scan_text(report, color: bool = False) -> str:
     """The summary table, fitted to the terminal's width when printing in colour."""
     width = shutil.get_terminal_size((120, 24)).columns if color else None
     return render_table(report, color=color, width=width)
+
+
+def jsonl_lines(results, total_errors=()):
+    """JSON Lines of a scan, one line per chart as ``results`` yields
+    ``(path, ImageCheck or None, error or None)``: a chart's line is the scan JSON's
+    ``images`` entry; an unreadable file's line is ``{"path", "error"}``; the last line
+    is ``{"summary", "caution"}``; every line carries ``$schema`` and ``version``.
+    Nothing is kept but the counts, so memory stays flat however many charts."""
+    counts = {"images": 0, "passed": 0, "failed": 0, "unreadable": 0}
+    for path, message in total_errors:
+        counts["unreadable"] += 1
+        yield json_text(stamp("scan-line", {"path": path, "error": message}), indent=None)
+    for path, check, error in results:
+        if error:
+            counts["unreadable"] += 1
+            yield json_text(stamp("scan-line", {"path": path, "error": error}), indent=None)
+            continue
+        counts["images"] += 1
+        counts["passed" if check.passed else "failed"] += 1
+        yield json_text(stamp("scan-line", check.to_dict()), indent=None)
+    yield json_text(stamp("scan-line", {"summary": counts, "caution": CAUTION}), indent=None)
