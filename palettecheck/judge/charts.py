@@ -8,7 +8,9 @@ An image's own background (found along its border, or an SVG's backdrop) is alwa
 one of the backgrounds checked; ``--background`` colours are checked too, and the
 first of them is what transparent images are composited over (white by default).
 A continuous scale is checked as the sequential or diverging ramp it looks like,
-unless a kind is given.
+unless a kind is given. A chart in which no data colour could be read (only its
+background, or only greys without ``include_neutrals``) is never a pass: it is
+refused like an unreadable file (:func:`require_colors`, exit code 2).
 """
 
 from __future__ import annotations
@@ -32,7 +34,7 @@ from ..read.extract import (
 from ..read.images import background_rgb, find_images, read_image
 from .result import CheckResult, check_palette
 
-__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
+__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "require_colors", "scan", "check_figure", "check_sources",
            "default_jobs"]
 
 @dataclass
@@ -90,12 +92,30 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     reading = getattr(palette, "reading", None)
     if not isinstance(palette, ChartPalette) or reading is None:
         return palette, settings
+    require_colors(palette)
     bgs = tuple(dict.fromkeys((reading.background, *backgrounds)))
     chosen = kind or (reading.ramp_kind if reading.scale == "continuous" else settings.kind)
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
         order = ramp_order(palette.hexes, reading.background)
         palette = ChartPalette(tuple(palette[i] for i in order), palette.source, palette.notes, reading=reading)
     return palette, settings.updated(backgrounds=bgs, kind=chosen)
+
+
+def require_colors(palette: ChartPalette) -> None:
+    """A chart whose data colours could not be read is never a pass: it is an
+    input error (exit 2, one line per chart in ``scan``), saying why."""
+    if len(palette):
+        return
+    reading = palette.reading
+    if reading.neutrals:
+        why = (f"only greys were found ({', '.join(h for h, _ in reading.neutrals[:6])}), taken for text, "
+               f"axes and grid; --include-neutrals checks them as data")
+    else:
+        why = f"only the background ({reading.background}) was found"
+    skipped = [n for n in reading.notes if "skipped" in n or "could not be read" in n or "not fetched" in n]
+    if skipped:
+        why += "; " + "; ".join(skipped)
+    raise ReadError(f"{reading.source}: no data colours could be read: {why}")
 
 
 def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
