@@ -11,22 +11,26 @@ The steps, each tuned for charts rather than photographs:
 1. **Background**: the colour that dominates the border. When the border is
    transparent the given background is used, and translucent colours are
    composited over it (source-over in sRGB-encoded values, as browsers do).
-2. **Merge**: colours within ``merge_radius`` ΔE' of a more frequent colour join
+2. **Coverage** (lossless raster images): anti-aliased tints of a mark over the
+   page count as that mark's coverage (:mod:`palettecheck.read.blends`), so a
+   1-pixel line is one colour with the ink it lays down, not dozens of tints.
+   Lossy files skip this step (compression noise scatters colours off the segment).
+3. **Merge**: colours within ``merge_radius`` ΔE' of a more frequent colour join
    it (JPEG noise, rounding). Each group keeps its most frequent member, which in a
    lossless file is the exact colour the chart was drawn with.
-3. **Continuous scale**: when many groups lie along one smooth path in CAM02-UCS
+4. **Continuous scale**: when many groups lie along one smooth path in CAM02-UCS
    and the pixels are spread along it (a heat map, a colour bar), the chart is a
    continuous scale: it is reported as evenly spaced steps along that path and
    checked as a sequential or diverging ramp (see :mod:`palettecheck.scale`).
-4. **Blends**: anti-aliased edges and translucent overlaps make colours that lie
+5. **Blends**: anti-aliased edges and translucent overlaps make colours that lie
    between stronger ones. A group is dropped when it lies (in sRGB) on the segment
    between two stronger groups (the background included), or where a translucent
    mark over another one would put it, and covers less than half of what its
    parents cover.
-5. **Neutrals**: greys (CAM02-UCS colourfulness M' below ``NEUTRAL_CHROMA``) are
+6. **Neutrals**: greys (CAM02-UCS colourfulness M' below ``NEUTRAL_CHROMA``) are
    text, axes and grid lines. They are reported apart and only checked as data
    colours when asked.
-6. **Minimum share**: groups under ``min_share`` of the non-background pixels are
+7. **Minimum share**: groups under ``min_share`` of the non-background pixels are
    left out.
 """
 
@@ -38,6 +42,7 @@ import numpy as np
 
 from ..color import Palette, Swatch, to_hex
 from ..perceive.ucs import to_ucs
+from .blends import explain_tints
 from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
 
 __all__ = [
@@ -330,6 +335,11 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     bg_i = int(np.argmin(gap))
     jab = to_ucs(rgb)
     total = float(w.sum())
+    if not counts.exact and not counts.lossy:  # anti-aliased tints count as coverage of the mark that made them
+        w, flat, _ = explain_tints(rgb, w, flat, jab, np.hypot(jab[:, 1], jab[:, 2]), bg_i,
+                                   tol=BLEND_TOLERANCE[counts.lossy], radius=merge_radius,
+                                   neutral=NEUTRAL_CHROMA, seed_min=max(total * 2e-5, 1e-12),
+                                   share_ratio=BLEND_SHARE_RATIO)
     # compression noise is strongest where most pixels are: around the background
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
     noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
