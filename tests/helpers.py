@@ -177,3 +177,22 @@ def thin_lines(width_pt: float = 0.72, dpi: int = 100, n: int = 5, legend: bool 
         ax.legend()
     ax.set_title("Invented route loads")
     return fig, list(LINES[:n])
+
+
+def panel_scatter(n: int = 4, points: int = 25, size: float = 9.0, panel: str = "#ebebeb", dpi: int = 100,
+                  grid: bool = True):
+    """Small markers on a tinted plot panel in a white figure, as some plotting
+    themes draw them: ``(figure, true colours)``."""
+    fig = Figure(figsize=(6.4, 4.0), dpi=dpi, facecolor="#ffffff")
+    ax = fig.add_subplot(facecolor=panel)
+    if grid:
+        ax.grid(True, color="#ffffff", linewidth=1.0)
+        ax.set_axisbelow(True)
+    for spine in ax.spines.values():
+        spine.set_visible(False)
+    rng = np.random.default_rng(4)
+    for i, c in enumerate(LINES[:n]):
+        ax.scatter(rng.normal(i, 1.0, points), rng.normal(0, 1.0, points), s=size, color=c, edgecolors="none",
+                   label=f"Batch {i + 1}")
+    ax.set_title("Invented batch yields")
+    return fig, list(LINES[:n])

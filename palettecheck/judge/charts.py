@@ -4,8 +4,9 @@
 and folders (in parallel processes), :func:`check_figure` checks a live matplotlib
 Figure by rendering it to memory. All return the objects the command line prints.
 
-An image's own background (found along its border, or an SVG's backdrop) is always
-one of the backgrounds checked; ``--background`` colours are checked too, and the
+An image's own background (found along its border, or an SVG's backdrop; its plot
+panel instead when it has one: a large uniform grey region the marks sit on) is
+always one of the backgrounds checked; ``--background`` colours are checked too, and the
 first of them is what transparent images are composited over (white by default).
 A continuous scale is checked as the sequential or diverging ramp it looks like,
 unless a kind is given. A chart in which no data colour could be read (only its
@@ -84,7 +85,8 @@ class ScanReport:
 def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     """The palette and settings to check a chart image with.
 
-    Backgrounds: the image's own, then ``backgrounds`` (the ones the user gave).
+    Backgrounds: the image's own (its plot panel when one was found: the marks sit
+    on it, so contrast is measured there), then ``backgrounds`` (the user's).
     Kind: ``kind`` when given, else the scale's (sequential/diverging) for a
     continuous scale, else the settings'. An ordered kind on a categorical reading
     puts the colours in ramp order. Palettes not read from images pass unchanged.
@@ -93,7 +95,8 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     if not isinstance(palette, ChartPalette) or reading is None:
         return palette, settings
     require_colors(palette)
-    bgs = tuple(dict.fromkeys((reading.background, *backgrounds)))
+    own = reading.panels or (reading.background,)  # the marks sit on the panel when there is one
+    bgs = tuple(dict.fromkeys((*own, *backgrounds)))
     chosen = kind or (reading.ramp_kind if reading.scale == "continuous" else settings.kind)
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
         order = ramp_order(palette.hexes, reading.background)
