@@ -85,7 +85,7 @@ def test_cascade_importance_specificity_inheritance(tmp_path):
     reading = palettecheck.read_image(path)
     # #a: id beats class beats attribute; rect.b (0,1,1) beats .b (0,1,0) -> black, a grey
     assert found(reading) == sorted(["#1b6ca8", "#e07b39", "#3a9d5d", "#c8414b", "#a0762c", "#7b5ea7"])
-    assert "#000000" in [h for h, _ in reading.neutrals]
+    assert "#000000" in [h for h, _ in reading.grey_data]  # a filled black box is data
 
 
 def test_fill_none_and_weights_by_area_and_length(tmp_path):
@@ -186,7 +186,8 @@ HOSTILE = {
     "background-only": (lambda: HEAD + '<rect width="400" height="300" fill="#ffffff"/></svg>',
                         "no data colours could be read"),
     "greys-only": (lambda: HEAD + '<rect width="400" height="300" fill="#ffffff"/>'
-                   '<rect width="50" height="50" fill="#888888"/></svg>', "include-neutrals"),
+                   '<text x="5" y="20" fill="#555555">Invented title only</text>'
+                   '<path d="M 10 250 L 390 250" stroke="#888888"/></svg>', "include-neutrals"),
 }
 
 
@@ -231,3 +232,21 @@ def test_legal_but_heavy_files_read_in_time(tmp_path):
         assert time.perf_counter() - start < 5.0, name
         assert found(reading) == colours, name
     assert any("skipped" in n for n in reading.notes)  # the 4-descendant selector
+
+
+def test_grey_bars_are_data_and_text_is_furniture(tmp_path, invoke):
+    """A grey house style: grey bars at about 1.5:1 on white are judged (and fail),
+    the grey text is furniture; both lists are in the JSON."""
+    bars = "".join(f'<rect x="{40 + 60 * i}" y="{100 - 10 * i}" width="40" height="{150 + 10 * i}" fill="{c}"/>'
+                   for i, c in enumerate(["#c9c9c9", "#bdbdbd", "#d4d4d4"]))
+    path = write(tmp_path, '<rect width="400" height="300" fill="#ffffff"/>' + bars
+                 + '<text x="40" y="290" fill="#555555" font-size="12">Invented volumes</text>')
+    reading = palettecheck.read_image(path)
+    assert sorted(h for h, _ in reading.grey_data) == ["#bdbdbd", "#c9c9c9", "#d4d4d4"]
+    assert [h for h, _ in reading.neutrals] == ["#555555"]
+    res = invoke("scan", str(path), "--format", "json")
+    import json
+
+    image = json.loads(res.output)["images"][0]
+    assert res.exit_code == 1 and not image["passed"]  # near-identical greys: a failing chart
+    assert [g["hex"] for g in image["grey_data"]] and [n["hex"] for n in image["neutrals"]] == ["#555555"]

@@ -31,8 +31,9 @@ The steps, each tuned for charts rather than photographs:
    mark over another one would put it, and covers less than half of what its
    parents cover.
 6. **Neutrals**: greys (CAM02-UCS colourfulness M' below ``NEUTRAL_CHROMA``) are
-   text, axes and grid lines. They are reported apart and only checked as data
-   colours when asked.
+   text, axes and grid lines, reported apart and checked only when asked, unless
+   they fill data-like area (``GREY_DATA_MIN_SHARE`` of the marks, nearly all
+   flat fill: bars, areas): those are ``grey_data``, checked as data colours.
 7. **Minimum share**: groups under ``min_share`` of the non-background pixels are
    left out.
 """
@@ -57,6 +58,7 @@ __all__ = [
     "DEFAULT_MIN_SHARE",
     "NEUTRAL_CHROMA",
     "PANEL_MIN_AREA",
+    "GREY_DATA_MIN_SHARE",
     "find_panel",
 ]
 
@@ -85,6 +87,14 @@ PARENT_MIN_SHARE = 0.0005
 #: default axes face covers 55-75 % of a figure; data bars rarely a third of it).
 PANEL_MIN_AREA = 0.3
 PANEL_MIN_FLAT = 0.8
+#: A grey is data (bars, areas) rather than furniture (text, axes, grid) when it
+#: covers at least this share of the non-background pixels, nearly all of it in
+#: flat fill, and stands apart from the page (practical choice, no source: text
+#: and 1-px grid lines are mostly edge pixels, axes frames half of them; a thick
+#: horizontal axis line is flat fill too, hence the share: thickness across a
+#: mark is not measured yet).
+GREY_DATA_MIN_SHARE = 0.08
+GREY_DATA_MIN_FLAT = 0.8
 
 
 @dataclass(frozen=True)
@@ -134,13 +144,19 @@ class ChartColors:
     #: plot panels: large uniform regions inside the figure that the marks sit on
     #: (their local background; left out of the shares)
     panels: tuple[str, ...] = ()
+    #: greys that cover data-like area (bars, areas): checked as data colours
+    grey_data: tuple[tuple[str, float], ...] = ()
 
     def palette(self, include_neutrals: bool = False) -> "ChartPalette":
-        """The colours to check, as a palette (neutrals appended when asked)."""
-        hexes = [h for h, _ in self.colors]
+        """The colours to check, as a palette: data colours, greys taken as data,
+        and the other greys (furniture) when asked."""
+        hexes = [h for h, _ in self.colors] + [h for h, _ in self.grey_data]
         if include_neutrals and self.scale == "categorical":
             hexes += [h for h, _ in self.neutrals if h not in hexes]
         notes = list(self.notes)
+        if self.grey_data:
+            notes.append("greys taken as data (they fill bars or areas), checked: "
+                         + ", ".join(h for h, _ in self.grey_data))
         if self.neutrals and not include_neutrals:
             greys = ", ".join(h for h, _ in self.neutrals)
             notes.append(f"greys taken for text, axes and grid, not checked as data colours: {greys}")
@@ -154,6 +170,7 @@ class ChartColors:
             "colors": [{"hex": h, "share": round(s, 4)} for h, s in self.colors],
             "neutrals": [{"hex": h, "share": round(s, 4)} for h, s in self.neutrals],
             "panels": list(self.panels),
+            "grey_data": [{"hex": h, "share": round(s, 4)} for h, s in self.grey_data],
         }
 
 
@@ -435,9 +452,14 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     keep = [k for k in np.argsort(-gw, kind="stable") if k != 0 and not_panel[k] and not blend[k]
             and share[k] >= min_share]
     colors = tuple((to_hex(g_rgb[k]), float(share[k])) for k in keep if g_chroma[k] >= NEUTRAL_CHROMA)
-    neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in keep if g_chroma[k] < NEUTRAL_CHROMA)
-    if not colors:
+    greys = [k for k in keep if g_chroma[k] < NEUTRAL_CHROMA]
+    from_page = np.sqrt(((g_jab - g_jab[0]) ** 2).sum(-1)) > 2.0 * merge_radius
+    data = [k for k in greys if share[k] >= GREY_DATA_MIN_SHARE and gflat[k] >= GREY_DATA_MIN_FLAT * gw[k]
+            and from_page[k]]
+    grey_data = tuple((to_hex(g_rgb[k]), float(share[k])) for k in data)
+    neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in greys if k not in data)
+    if not colors and not grey_data:
         notes.append("no data colours found: only the background and greys")
     return ChartColors(source, background, bg_from, "categorical", colors, neutrals, None,
-                       counts.size, tuple(notes), panels)
+                       counts.size, tuple(notes), panels, grey_data)
 

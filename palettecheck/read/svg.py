@@ -20,7 +20,8 @@ in a note, never dropped silently.
 Weights: a fill counts with its area (rectangles and ellipses exactly, paths and
 polygons by the shoelace area of their points, control points included), a stroke
 with its outline length times its width, text with its glyph count times the square
-of its size (all after transforms). The background is the first opaque fill
+of its size (all after transforms). Fills are reported as flat fill, strokes and
+text as edges (as the raster reader tells runs of equal pixels from edges). The background is the first opaque fill
 covering nearly all of the canvas; without one the given background is used.
 
 Hard limits (each a named setting here or in ``svgstyle``; a file over one is
@@ -309,7 +310,7 @@ class _Painter:
         self.ids = {el.get("id"): el for el in root.iter() if el.get("id")}
         texts = [el.text or "" for el in root.iter() if _tag(el) == "style"]
         self.cascade = Cascade(root, path, texts, notes)
-        self.colors, self.weights = [], []
+        self.colors, self.weights, self.flat = [], [], []  # flat: the part painted by fills
         self.background = None
         self.canvas = None
         self.external = 0
@@ -391,12 +392,13 @@ class _Painter:
         (a gradient of many stops, as a colour bar, reads as a continuous scale)."""
         return [(tuple(s[1]), s[2]) for s in self.stops(grad)]
 
-    def add(self, paints, weight, alpha_scale=1.0):
+    def add(self, paints, weight, alpha_scale=1.0, fill=True):
         for (r, g, b, a), share in paints:
             a *= alpha_scale
             if weight * share > 0 and a > 0:
                 self.colors.append((r, g, b, 255.0 * min(1.0, a)))
                 self.weights.append(weight * share)
+                self.flat.append(weight * share if fill else 0.0)
 
     def tick(self):
         self.painted += 1
@@ -455,7 +457,7 @@ class _Painter:
             text = "".join(el.itertext()).strip()
             size = _length(style.get("font-size"), 16.0) * math.sqrt(_scale_of(m)[0])
             fill = self.paint_value(style.get("fill", "black"), style, _opacity(style.get("fill-opacity")))
-            self.add(fill, 0.5 * len(text) * size * size, opacity)
+            self.add(fill, 0.5 * len(text) * size * size, opacity, fill=False)
             return
         area, length = self.geometry(el, tag, m)
         if area is None:
@@ -469,7 +471,7 @@ class _Painter:
         self.add(fill, area, opacity)
         width = _length(style.get("stroke-width"), 1.0) * math.sqrt(_scale_of(m)[0])
         stroke = self.paint_value(style.get("stroke", "none"), style, _opacity(style.get("stroke-opacity")))
-        self.add(stroke, length * width, opacity)
+        self.add(stroke, length * width, opacity, fill=False)
 
     def geometry(self, el, tag, m):
         """(area, outline length) of a shape under ``m``; the shape's own geometry
@@ -519,9 +521,11 @@ class _Painter:
         total = counts.weights.sum()
         if area <= 0 or total <= 0:
             return
-        for rgba, w in zip(counts.rgba, counts.weights):  # pixels -> the area they are shown on
+        flat = counts.weights if counts.flat is None else counts.flat
+        for rgba, w, f in zip(counts.rgba, counts.weights, flat):  # pixels -> the area they are shown on
             self.colors.append((*rgba[:3], rgba[3] * opacity))
             self.weights.append(w * area / total)
+            self.flat.append(f * area / total)
 
 
 def _opacity(text) -> float:
@@ -561,17 +565,19 @@ def read_counts(path) -> ColorCounts:
         notes.append(f"{n} paint(s) skipped, colours not read: {what}")
     rgba = np.asarray(painter.colors, dtype=float).reshape(-1, 4)
     weights = np.asarray(painter.weights, dtype=float)
-    keep = np.isfinite(weights) & np.isfinite(rgba).all(axis=1)
-    rgba, weights = rgba[keep], weights[keep]
+    flat = np.asarray(painter.flat, dtype=float)
+    keep = np.isfinite(weights) & np.isfinite(rgba).all(axis=1) & np.isfinite(flat)
+    rgba, weights, flat = rgba[keep], weights[keep], flat[keep]
     if painter.background is not None:
         border = np.asarray([(*painter.background, 255.0)])
         rgba = np.vstack([rgba, border])
         weights = np.append(weights, max(weights.sum(), 1.0) * 1e-6)
+        flat = np.append(flat, weights[-1])
         border_w = np.ones(1)
     else:
         border, border_w = np.zeros((0, 4)), np.zeros(0)
     size = tuple(int(round(v)) for v in size_px) if size_px and all(v < 1e7 for v in size_px) else None
-    return ColorCounts(rgba, weights, border, border_w, flat=None, exact=True, lossy=False,
+    return ColorCounts(rgba, weights, border, border_w, flat=flat, exact=True, lossy=False,
                        size=size, notes=tuple(notes))
 
 
