@@ -140,3 +140,59 @@ def naive_movement(palette: Palette, settings: Settings) -> float:
         total += float(np.linalg.norm(to_ucs(new) - to_ucs(rgb[i])))
         rgb[i] = new
     return total
+
+
+#: Six invented series colours for line charts (as a chart maker would pick them).
+LINES = ["#1b6ca8", "#e07b39", "#3a9d5d", "#c8414b", "#7b5ea7", "#a0762c"]
+
+
+def thin_lines(width_pt: float = 0.72, dpi: int = 100, n: int = 5, legend: bool = True,
+               direction: str = "wave", style: str = "-", panel: str | None = None, size=(6.4, 4.0)):
+    """A line chart of ``n`` thin series: ``(figure, true colours)``.
+
+    :param width_pt: line width in points (0.72 pt is one pixel at 100 dpi).
+    :param direction: "wave" (noisy sines), "horizontal", "vertical" or "diagonal".
+    :param style: a matplotlib line style ("-", "--", ":").
+    :param panel: the axes face colour (a plot panel inside a white figure), or None.
+    """
+    fig = Figure(figsize=size, dpi=dpi)
+    ax = fig.add_subplot(facecolor=panel or "#ffffff")
+    rng = np.random.default_rng(7)
+    x = np.linspace(0, 10, 200)
+    for i, c in enumerate(LINES[:n]):
+        if direction == "horizontal":
+            xs, ys = [0, 10], [i, i]
+        elif direction == "vertical":
+            xs, ys = [i, i], [0, 10]
+        elif direction == "diagonal":
+            xs, ys = [0, 10], [i, 10 + i]
+        else:
+            xs, ys = x, np.sin(x + i) * (1 + 0.2 * i) + 0.25 * rng.normal(size=x.size) + 0.4 * i
+        ax.plot(xs, ys, color=c, lw=width_pt, ls=style, label=f"Route {i + 1}")
+    if direction == "horizontal":
+        ax.set_ylim(-1, n)
+    elif direction == "vertical":
+        ax.set_xlim(-1, n)
+    if legend:
+        ax.legend()
+    ax.set_title("Invented route loads")
+    return fig, list(LINES[:n])
+
+
+def panel_scatter(n: int = 4, points: int = 25, size: float = 9.0, panel: str = "#ebebeb", dpi: int = 100,
+                  grid: bool = True):
+    """Small markers on a tinted plot panel in a white figure, as some plotting
+    themes draw them: ``(figure, true colours)``."""
+    fig = Figure(figsize=(6.4, 4.0), dpi=dpi, facecolor="#ffffff")
+    ax = fig.add_subplot(facecolor=panel)
+    if grid:
+        ax.grid(True, color="#ffffff", linewidth=1.0)
+        ax.set_axisbelow(True)
+    for spine in ax.spines.values():
+        spine.set_visible(False)
+    rng = np.random.default_rng(4)
+    for i, c in enumerate(LINES[:n]):
+        ax.scatter(rng.normal(i, 1.0, points), rng.normal(0, 1.0, points), s=size, color=c, edgecolors="none",
+                   label=f"Batch {i + 1}")
+    ax.set_title("Invented batch yields")
+    return fig, list(LINES[:n])

@@ -4,11 +4,14 @@
 and folders (in parallel processes), :func:`check_figure` checks a live matplotlib
 Figure by rendering it to memory. All return the objects the command line prints.
 
-An image's own background (found along its border, or an SVG's backdrop) is always
-one of the backgrounds checked; ``--background`` colours are checked too, and the
+An image's own background (found along its border, or an SVG's backdrop; its plot
+panel instead when it has one: a large uniform grey region the marks sit on) is
+always one of the backgrounds checked; ``--background`` colours are checked too, and the
 first of them is what transparent images are composited over (white by default).
 A continuous scale is checked as the sequential or diverging ramp it looks like,
-unless a kind is given.
+unless a kind is given. A chart in which no data colour could be read (only its
+background, or only greys without ``include_neutrals``) is never a pass: it is
+refused like an unreadable file (:func:`require_colors`, exit code 2).
 """
 
 from __future__ import annotations
@@ -32,8 +35,8 @@ from ..read.extract import (
 from ..read.images import background_rgb, find_images, read_image
 from .result import CheckResult, check_palette
 
-__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "scan", "check_figure", "check_sources",
-           "default_jobs", "available_cores", "capped_jobs", "iter_checks"]
+__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "require_colors", "scan", "check_figure",
+           "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks"]
 
 @dataclass
 class ImageCheck:
@@ -82,7 +85,8 @@ class ScanReport:
 def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     """The palette and settings to check a chart image with.
 
-    Backgrounds: the image's own, then ``backgrounds`` (the ones the user gave).
+    Backgrounds: the image's own (its plot panel when one was found: the marks sit
+    on it, so contrast is measured there), then ``backgrounds`` (the user's).
     Kind: ``kind`` when given, else the scale's (sequential/diverging) for a
     continuous scale, else the settings'. An ordered kind on a categorical reading
     puts the colours in ramp order. Palettes not read from images pass unchanged.
@@ -90,12 +94,31 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     reading = getattr(palette, "reading", None)
     if not isinstance(palette, ChartPalette) or reading is None:
         return palette, settings
-    bgs = tuple(dict.fromkeys((reading.background, *backgrounds)))
+    require_colors(palette)
+    own = reading.panels or (reading.background,)  # the marks sit on the panel when there is one
+    bgs = tuple(dict.fromkeys((*own, *backgrounds)))
     chosen = kind or (reading.ramp_kind if reading.scale == "continuous" else settings.kind)
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
         order = ramp_order(palette.hexes, reading.background)
         palette = ChartPalette(tuple(palette[i] for i in order), palette.source, palette.notes, reading=reading)
     return palette, settings.updated(backgrounds=bgs, kind=chosen)
+
+
+def require_colors(palette: ChartPalette) -> None:
+    """A chart whose data colours could not be read is never a pass: it is an
+    input error (exit 2, one line per chart in ``scan``), saying why."""
+    if len(palette):
+        return
+    reading = palette.reading
+    if reading.neutrals:
+        why = (f"only greys were found ({', '.join(h for h, _ in reading.neutrals[:6])}), taken for text, "
+               f"axes and grid; --include-neutrals checks them as data")
+    else:
+        why = f"only the background ({reading.background}) was found"
+    skipped = [n for n in reading.notes if "skipped" in n or "could not be read" in n or "not fetched" in n]
+    if skipped:
+        why += "; " + "; ".join(skipped)
+    raise ReadError(f"{reading.source}: no data colours could be read: {why}")
 
 
 def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
@@ -238,8 +261,11 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
                 key = None  # unreadable: _one says why
             reading = cache.get(key) if key else None
             if reading is not None:
-                yield f, check_image(reading, settings, kind=kind, backgrounds=backgrounds,
-                                     include_neutrals=include_neutrals), None
+                try:
+                    yield f, check_image(reading, settings, kind=kind, backgrounds=backgrounds,
+                                         include_neutrals=include_neutrals), None
+                except ReadError as e:
+                    yield f, None, str(e)
                 continue
             keys[f] = key
         todo.append(f)

@@ -294,8 +294,14 @@ def review_paths(paths, settings: Settings | None = None, *, whole: bool = False
             errors.append((str(f), str(e)))
             continue
         for reading in readings:
-            checks.append(check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
-                                      include_neutrals=include_neutrals))
+            try:
+                checks.append(check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
+                                          include_neutrals=include_neutrals))
+            except ReadError as e:
+                if len(readings) == 1:
+                    errors.append((str(f), str(e)))
+                # a panel without data colours (a title card, a table of figures) is not a chart
+
     review = review_display(checks, settings, approved=approved, errors=errors)
     review.sources = [str(f) for f in files]
     return review

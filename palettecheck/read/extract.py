@@ -11,22 +11,30 @@ The steps, each tuned for charts rather than photographs:
 1. **Background**: the colour that dominates the border. When the border is
    transparent the given background is used, and translucent colours are
    composited over it (source-over in sRGB-encoded values, as browsers do).
-2. **Merge**: colours within ``merge_radius`` ΔE' of a more frequent colour join
+   A **plot panel** (:func:`find_panel`: one grey covering ``PANEL_MIN_AREA`` of
+   the image in flat fill) is the local background of the marks on it: their
+   tints are read against it, and it is left out of the shares.
+2. **Coverage** (lossless raster images): anti-aliased tints of a mark over the
+   page count as that mark's coverage (:mod:`palettecheck.read.blends`), so a
+   1-pixel line is one colour with the ink it lays down, not dozens of tints.
+   Lossy files skip this step (compression noise scatters colours off the segment).
+3. **Merge**: colours within ``merge_radius`` ΔE' of a more frequent colour join
    it (JPEG noise, rounding). Each group keeps its most frequent member, which in a
    lossless file is the exact colour the chart was drawn with.
-3. **Continuous scale**: when many groups lie along one smooth path in CAM02-UCS
+4. **Continuous scale**: when many groups lie along one smooth path in CAM02-UCS
    and the pixels are spread along it (a heat map, a colour bar), the chart is a
    continuous scale: it is reported as evenly spaced steps along that path and
    checked as a sequential or diverging ramp (see :mod:`palettecheck.scale`).
-4. **Blends**: anti-aliased edges and translucent overlaps make colours that lie
+5. **Blends**: anti-aliased edges and translucent overlaps make colours that lie
    between stronger ones. A group is dropped when it lies (in sRGB) on the segment
    between two stronger groups (the background included), or where a translucent
    mark over another one would put it, and covers less than half of what its
    parents cover.
-5. **Neutrals**: greys (CAM02-UCS colourfulness M' below ``NEUTRAL_CHROMA``) are
-   text, axes and grid lines. They are reported apart and only checked as data
-   colours when asked.
-6. **Minimum share**: groups under ``min_share`` of the non-background pixels are
+6. **Neutrals**: greys (CAM02-UCS colourfulness M' below ``NEUTRAL_CHROMA``) are
+   text, axes and grid lines, reported apart and checked only when asked, unless
+   they fill data-like area (``GREY_DATA_MIN_SHARE`` of the marks, nearly all
+   flat fill: bars, areas): those are ``grey_data``, checked as data colours.
+7. **Minimum share**: groups under ``min_share`` of the non-background pixels are
    left out.
 """
 
@@ -38,6 +46,7 @@ import numpy as np
 
 from ..color import Palette, Swatch, to_hex
 from ..perceive.ucs import to_ucs
+from .blends import explain_tints
 from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
 
 __all__ = [
@@ -48,6 +57,9 @@ __all__ = [
     "DEFAULT_MERGE_RADIUS",
     "DEFAULT_MIN_SHARE",
     "NEUTRAL_CHROMA",
+    "PANEL_MIN_AREA",
+    "GREY_DATA_MIN_SHARE",
+    "find_panel",
 ]
 
 #: ΔE' within which colours count as one (JPEG noise, rounding). About 1.5 to 3
@@ -70,6 +82,19 @@ BLEND_SHARE_RATIO = 0.5
 MAX_SEED_CANDIDATES = 600
 #: Groups under this share of the non-background pixels are not used as parents.
 PARENT_MIN_SHARE = 0.0005
+#: A plot panel: one grey (M' under NEUTRAL_CHROMA) covering at least this share of
+#: the whole image, nearly all of it in flat fill (practical choice, no source: a
+#: default axes face covers 55-75 % of a figure; data bars rarely a third of it).
+PANEL_MIN_AREA = 0.3
+PANEL_MIN_FLAT = 0.8
+#: A grey is data (bars, areas) rather than furniture (text, axes, grid) when it
+#: covers at least this share of the non-background pixels, nearly all of it in
+#: flat fill, and stands apart from the page (practical choice, no source: text
+#: and 1-px grid lines are mostly edge pixels, axes frames half of them; a thick
+#: horizontal axis line is flat fill too, hence the share: thickness across a
+#: mark is not measured yet).
+GREY_DATA_MIN_SHARE = 0.08
+GREY_DATA_MIN_FLAT = 0.8
 
 
 @dataclass(frozen=True)
@@ -116,13 +141,22 @@ class ChartColors:
     ramp_kind: str | None = None
     size: tuple[int, int] | None = None
     notes: tuple[str, ...] = ()
+    #: plot panels: large uniform regions inside the figure that the marks sit on
+    #: (their local background; left out of the shares)
+    panels: tuple[str, ...] = ()
+    #: greys that cover data-like area (bars, areas): checked as data colours
+    grey_data: tuple[tuple[str, float], ...] = ()
 
     def palette(self, include_neutrals: bool = False) -> "ChartPalette":
-        """The colours to check, as a palette (neutrals appended when asked)."""
-        hexes = [h for h, _ in self.colors]
+        """The colours to check, as a palette: data colours, greys taken as data,
+        and the other greys (furniture) when asked."""
+        hexes = [h for h, _ in self.colors] + [h for h, _ in self.grey_data]
         if include_neutrals and self.scale == "categorical":
             hexes += [h for h, _ in self.neutrals if h not in hexes]
         notes = list(self.notes)
+        if self.grey_data:
+            notes.append("greys taken as data (they fill bars or areas), checked: "
+                         + ", ".join(h for h, _ in self.grey_data))
         if self.neutrals and not include_neutrals:
             greys = ", ".join(h for h, _ in self.neutrals)
             notes.append(f"greys taken for text, axes and grid, not checked as data colours: {greys}")
@@ -135,6 +169,8 @@ class ChartColors:
             "scale": self.scale,
             "colors": [{"hex": h, "share": round(s, 4)} for h, s in self.colors],
             "neutrals": [{"hex": h, "share": round(s, 4)} for h, s in self.neutrals],
+            "panels": list(self.panels),
+            "grey_data": [{"hex": h, "share": round(s, 4)} for h, s in self.grey_data],
         }
 
 
@@ -178,6 +214,17 @@ def find_background(counts: ColorCounts, fallback) -> tuple[np.ndarray, str]:
         near = np.sqrt(((jab[:, None, :] - jab[None, :, :]) ** 2).sum(-1)) <= DEFAULT_MERGE_RADIUS
         return rgb[int(np.argmax(near.astype(float) @ cw))], "detected"
     return rgb[int(np.argmax(cw))], "detected"
+
+
+def find_panel(w: np.ndarray, flat: np.ndarray, chroma: np.ndarray, bg: int, area: float | None = None):
+    """Index of the plot panel among distinct colours (or None): a grey other than
+    the page covering ``PANEL_MIN_AREA`` of the image (``area``: the canvas of a
+    vector file, whose weights do not add up to it), ``PANEL_MIN_FLAT`` of it in
+    flat fill."""
+    total = float(w.sum()) if area is None else float(area)
+    ok = (w >= PANEL_MIN_AREA * total) & (flat >= PANEL_MIN_FLAT * w) & (chroma < NEUTRAL_CHROMA)
+    ok[bg] = False
+    return int(np.argmax(np.where(ok, w, -1.0))) if ok.any() else None
 
 
 def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: float,
@@ -330,6 +377,17 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     bg_i = int(np.argmin(gap))
     jab = to_ucs(rgb)
     total = float(w.sum())
+    chroma_all = np.hypot(jab[:, 1], jab[:, 2])
+    canvas = None
+    if counts.exact:
+        canvas = float(counts.size[0] * counts.size[1]) if counts.size else np.inf
+    panel_i = find_panel(w, flat, chroma_all, bg_i, canvas)
+    if not counts.exact and not counts.lossy:  # anti-aliased tints count as coverage of the mark that made them
+        for base in ([panel_i] if panel_i is not None else []) + [bg_i]:
+            w, flat, _ = explain_tints(rgb, w, flat, jab, chroma_all, base,
+                                       tol=BLEND_TOLERANCE[counts.lossy], radius=merge_radius,
+                                       neutral=NEUTRAL_CHROMA, seed_min=max(total * 2e-5, 1e-12),
+                                       share_ratio=BLEND_SHARE_RATIO)
     # compression noise is strongest where most pixels are: around the background
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
     noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
@@ -341,18 +399,27 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     gflat = np.bincount(group[inside], weights=flat[inside], minlength=len(seeds))
     g_rgb, g_jab = rgb[seeds], jab[seeds]
     g_chroma = np.hypot(g_jab[:, 1], g_jab[:, 2])
-    plot = total - gw[0]
+    panel_g = int(group[panel_i]) if panel_i is not None and group[panel_i] > 0 else None
+    panels = (to_hex(g_rgb[panel_g]),) if panel_g is not None else ()
+    plot = total - gw[0] - (gw[panel_g] if panel_g is not None else 0.0)
     background = to_hex(g_rgb[0])
     if bg_from == "given":
         notes.append(f"transparent background: colours measured over {background}")
+    if panels:
+        notes.append(f"plot panel {panels[0]}: taken as the background of the marks on it, "
+                     f"left out of the shares")
     if plot <= 0:
         notes.append("the image holds only its background colour")
-        return ChartColors(source, background, bg_from, "categorical", (), (), None, counts.size, tuple(notes))
+        return ChartColors(source, background, bg_from, "categorical", (), (), None, counts.size, tuple(notes),
+                           panels)
     share = gw / plot
+    not_panel = np.ones(len(seeds), dtype=bool)
+    if panel_g is not None:
+        not_panel[panel_g] = False
 
     # a scale is drawn as flat cells or a bar: only flat fill counts towards one
-    live = [k for k in range(1, len(seeds))
-            if gflat[k] >= (5e-4 if counts.lossy else 1e-4) * plot and gflat[k] >= 0.5 * gw[k]]
+    live = [k for k in range(1, len(seeds)) if not_panel[k]
+            and gflat[k] >= (5e-4 if counts.lossy else 1e-4) * plot and gflat[k] >= 0.5 * gw[k]]
     vivid = [k for k in live if g_chroma[k] >= NEUTRAL_CHROMA]
     grey = [k for k in live if g_chroma[k] < NEUTRAL_CHROMA]
     outline = np.asarray([k for k in range(len(seeds)) if g_chroma[k] < NEUTRAL_CHROMA
@@ -375,18 +442,24 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
         notes.append(f"continuous colour scale: {len(path)} colours along one path, "
                      f"shown as {len(colors)} evenly spaced steps, checked as {kind}")
         return ChartColors(source, background, bg_from, "continuous", colors, neutrals, kind,
-                           counts.size, tuple(notes))
+                           counts.size, tuple(notes), panels)
 
-    test = [k for k in range(1, len(seeds)) if share[k] >= min_share]
+    test = [k for k in range(1, len(seeds)) if share[k] >= min_share and not_panel[k]]
     parents = [k for k in range(len(seeds)) if k == 0 or share[k] >= PARENT_MIN_SHARE]
     blend = np.zeros(len(seeds), dtype=bool) if counts.exact else \
         _blends(g_rgb, g_jab, gw, gflat, g_chroma, 0, BLEND_TOLERANCE[counts.lossy], counts.lossy, test,
                 parents, merge_radius)
-    keep = [k for k in np.argsort(-gw, kind="stable") if k != 0 and not blend[k] and share[k] >= min_share]
+    keep = [k for k in np.argsort(-gw, kind="stable") if k != 0 and not_panel[k] and not blend[k]
+            and share[k] >= min_share]
     colors = tuple((to_hex(g_rgb[k]), float(share[k])) for k in keep if g_chroma[k] >= NEUTRAL_CHROMA)
-    neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in keep if g_chroma[k] < NEUTRAL_CHROMA)
-    if not colors:
+    greys = [k for k in keep if g_chroma[k] < NEUTRAL_CHROMA]
+    from_page = np.sqrt(((g_jab - g_jab[0]) ** 2).sum(-1)) > 2.0 * merge_radius
+    data = [k for k in greys if share[k] >= GREY_DATA_MIN_SHARE and gflat[k] >= GREY_DATA_MIN_FLAT * gw[k]
+            and from_page[k]]
+    grey_data = tuple((to_hex(g_rgb[k]), float(share[k])) for k in data)
+    neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in greys if k not in data)
+    if not colors and not grey_data:
         notes.append("no data colours found: only the background and greys")
     return ChartColors(source, background, bg_from, "categorical", colors, neutrals, None,
-                       counts.size, tuple(notes))
+                       counts.size, tuple(notes), panels, grey_data)
 

@@ -1,20 +1,33 @@
 """SVG charts: the colours they paint, weighted by how much they paint.
 
 Parsing is defusedxml's: a file declaring entities (the billion-laughs bomb) or
-pointing at external entities or DTDs is refused, and nothing is ever fetched;
-linked images outside the file are skipped. Embedded ``data:`` PNG/JPEG/WebP
-images are decoded with the raster reader's size limit.
+pointing at external entities is refused, and nothing is ever fetched. A document
+type declaration is allowed only as the standard W3C SVG one (public identifier
+``-//W3C//DTD SVG ...``, never loaded) without an internal subset; any other DTD is
+refused. The root must be ``<svg>`` in the SVG namespace. Linked images outside
+the file are skipped with a note; embedded ``data:`` PNG/JPEG/WebP images are
+decoded with the raster reader's limits.
 
-Paint is resolved as a browser would for the properties charts use: presentation
-attributes, then ``<style>`` rules (type, class, id and ``*`` selectors, in order of
-specificity; other selectors are skipped), then ``style`` attributes; ``fill``,
-``stroke``, their opacities and ``color`` inherit; ``currentColor`` takes ``color``;
+Styles follow the CSS cascade (:mod:`palettecheck.read.svgstyle`: tinycss2 and
+cssselect2); ``fill``, ``stroke``, their opacities, ``stroke-width``, ``font-size``
+and ``color`` inherit, also into ``<use>`` copies; ``currentColor`` takes ``color``;
 ``opacity`` multiplies down groups; ``none``/``transparent``, ``display: none`` and
-``visibility: hidden`` paint nothing; ``url(#gradient)`` paints its stops. Each
-fill counts with the area of its bounding box, each stroke with its outline length
-times its width, text with its glyph count times the square of its size (all after
-transforms). The background is the first opaque fill covering nearly all of the
-canvas; without one the given background is used.
+``visibility: hidden`` paint nothing. A gradient paints its stop colours, equally
+weighted (a gradient of many stops, as a colour bar, reads as a continuous scale),
+with a note; a pattern's colours are not read, and the shapes it fills are counted
+in a note, never dropped silently.
+
+Weights: a fill counts with its area (rectangles and ellipses exactly, paths and
+polygons by the shoelace area of their points, control points included), a stroke
+with its outline length times its width, text with its glyph count times the square
+of its size (all after transforms). Fills are reported as flat fill, strokes and
+text as edges (as the raster reader tells runs of equal pixels from edges). The background is the first opaque fill
+covering nearly all of the canvas; without one the given background is used.
+
+Hard limits (each a named setting here or in ``svgstyle``; a file over one is
+refused with one line naming the limit): file size, element count, nesting depth,
+``<use>`` nesting and expansion, path data length, embedded images, and the time a
+file may take.
 """
 
 from __future__ import annotations
@@ -22,6 +35,7 @@ from __future__ import annotations
 import base64
 import math
 import re
+import time
 from pathlib import Path
 
 import numpy as np
@@ -30,12 +44,33 @@ from ..color import ColorError, parse_color
 from ..errors import ReadError
 from .extract import ColorCounts, extract
 from .files import file_size
-from .raster import counts_from_image, open_image_bytes
+from .svgstyle import Cascade
 
-__all__ = ["MAX_SVG_BYTES", "read_counts", "read"]
+__all__ = ["MAX_SVG_BYTES", "MAX_SVG_ELEMENTS", "MAX_SVG_DEPTH", "MAX_USE_DEPTH", "MAX_PAINTED",
+           "MAX_PATH_DATA", "MAX_EMBEDDED_IMAGES", "MAX_SVG_SECONDS",
+           "read_counts", "read"]
 
 #: SVG files larger than this are refused (a chart is rarely over a few MB).
 MAX_SVG_BYTES = 32 * 1024 * 1024
+#: Elements in the parsed file (a dense scatter plot has tens of thousands).
+MAX_SVG_ELEMENTS = 200_000
+#: Nesting depth of elements (charts nest a handful deep; deep trees make
+#: descendant selectors slow).
+MAX_SVG_DEPTH = 64
+#: ``<use>`` inside ``<use>``: how deep copies may nest (reference bombs nest 10+).
+MAX_USE_DEPTH = 8
+#: Elements painted, every ``<use>`` copy counted again (a reference bomb expands
+#: to billions).
+MAX_PAINTED = 150_000
+#: Characters in one ``d`` or ``points`` attribute.
+MAX_PATH_DATA = 4_000_000
+#: Embedded ``data:`` images in one file (a chart embeds one per raster layer).
+MAX_EMBEDDED_IMAGES = 16
+#: Seconds one SVG may take to read, whatever it holds (the bad-input contract is
+#: a clear answer in under 10 s).
+MAX_SVG_SECONDS = 8.0
+#: Practical limits above: chosen for charts, no source.
+
 _NS = "{http://www.w3.org/2000/svg}"
 _XLINK = "{http://www.w3.org/1999/xlink}href"
 _SHAPES = {"rect", "circle", "ellipse", "path", "polygon", "polyline", "line", "text", "image"}
@@ -43,9 +78,10 @@ _SKIP = {"defs", "clipPath", "mask", "marker", "symbol", "pattern", "linearGradi
          "title", "desc", "metadata", "style", "script", "filter", "foreignObject"}
 _INHERITED = ("fill", "stroke", "fill-opacity", "stroke-opacity", "color", "stroke-width", "visibility",
               "font-size")
-_PROPS = set(_INHERITED) | {"opacity", "display", "stop-color", "stop-opacity"}
 _NUM = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
+_PATH_TOKEN = re.compile(r"[MmLlHhVvCcSsQqTtAaZz]|[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
 _UNITS = {"px": 1.0, "pt": 4 / 3, "pc": 16.0, "mm": 96 / 25.4, "cm": 96 / 2.54, "in": 96.0, "": 1.0}
+_SVG_PUBLIC_ID = "-//W3C//DTD SVG"
 
 
 def _error(path, message: str):
@@ -60,10 +96,11 @@ def _tag(el) -> str:
 def _length(text, default: float = 0.0) -> float:
     if text is None:
         return default
-    m = re.fullmatch(r"\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([a-z%]*)\s*", str(text))
+    m = re.fullmatch(r"\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([a-z%]*)\s*", str(text)[:64])
     if not m or m.group(2) == "%":
         return default
-    return float(m.group(1)) * _UNITS.get(m.group(2), 1.0)
+    v = float(m.group(1)) * _UNITS.get(m.group(2), 1.0)
+    return v if math.isfinite(v) else default
 
 
 # --- transforms -------------------------------------------------------------
@@ -73,8 +110,10 @@ def _transform(text: str | None) -> np.ndarray:
     m = np.eye(3)
     if not text:
         return m
-    for name, args in re.findall(r"(matrix|translate|scale|rotate|skewX|skewY)\s*\(([^)]*)\)", text):
+    for name, args in re.findall(r"(matrix|translate|scale|rotate|skewX|skewY)\s*\(([^)]*)\)", text[:10_000]):
         v = [float(x) for x in _NUM.findall(args)]
+        if not all(math.isfinite(x) for x in v):
+            continue
         t = np.eye(3)
         if name == "matrix" and len(v) == 6:
             t = np.array([[v[0], v[2], v[4]], [v[1], v[3], v[5]], [0, 0, 1]])
@@ -98,155 +137,229 @@ def _transform(text: str | None) -> np.ndarray:
 
 # --- geometry ---------------------------------------------------------------
 
-def _path_points(d: str) -> np.ndarray:
-    """End and control points of path data (absolute and relative commands)."""
-    pts, x, y, sx, sy = [], 0.0, 0.0, 0.0, 0.0
+def _path_subpaths(d: str) -> list[np.ndarray]:
+    """End and control points of path data (absolute and relative commands), one
+    array per subpath."""
+    tokens = _PATH_TOKEN.findall(d or "")
     counts = {"M": 2, "L": 2, "T": 2, "H": 1, "V": 1, "C": 6, "S": 4, "Q": 4, "A": 7, "Z": 0}
-    for cmd, body in re.findall(r"([MmLlHhVvCcSsQqTtAaZz])([^MmLlHhVvCcSsQqTtAaZz]*)", d or ""):
-        up = cmd.upper()
-        rel = cmd != up
-        nums = [float(n) for n in _NUM.findall(body)]
-        if up == "Z":
-            x, y = sx, sy
+    subpaths, pts = [], []
+    x = y = sx = sy = 0.0
+    cmd, i, n = None, 0, len(tokens)
+    while i < n:
+        t = tokens[i]
+        if t.isalpha():
+            cmd = t
+            i += 1
+            if cmd in "Zz":
+                x, y = sx, sy
+                if pts:
+                    subpaths.append(pts)
+                    pts = []
+                cmd = None
             continue
+        if cmd is None:  # numbers with no command: malformed, stop as a browser does
+            break
+        up = cmd.upper()
         k = counts[up]
-        for i in range(0, len(nums) - k + 1, k) if k else ():
-            a = nums[i : i + k]
-            if up == "H":
-                x = x + a[0] if rel else a[0]
-            elif up == "V":
-                y = y + a[0] if rel else a[0]
-            elif up == "A":
-                x, y = (x + a[5], y + a[6]) if rel else (a[5], a[6])
-            else:
-                for j in range(0, k - 2, 2):
-                    pts.append((x + a[j], y + a[j + 1]) if rel else (a[j], a[j + 1]))
-                x, y = (x + a[k - 2], y + a[k - 1]) if rel else (a[k - 2], a[k - 1])
-            pts.append((x, y))
-            if up == "M" and i == 0:
-                sx, sy = x, y
-    return np.asarray(pts, dtype=float).reshape(-1, 2)
+        if i + k > n:
+            break
+        try:
+            a = [float(v) for v in tokens[i : i + k]]
+        except ValueError:
+            break
+        i += k
+        rel = cmd != up
+        if up == "M" and pts:
+            subpaths.append(pts)
+            pts = []
+        if up == "H":
+            x = x + a[0] if rel else a[0]
+        elif up == "V":
+            y = y + a[0] if rel else a[0]
+        elif up == "A":
+            x, y = (x + a[5], y + a[6]) if rel else (a[5], a[6])
+        else:
+            for j in range(0, k - 2, 2):
+                pts.append((x + a[j], y + a[j + 1]) if rel else (a[j], a[j + 1]))
+            x, y = (x + a[k - 2], y + a[k - 1]) if rel else (a[k - 2], a[k - 1])
+        if up == "M":
+            sx, sy = x, y
+            cmd = "l" if rel else "L"  # further pairs after a moveto are linetos
+        pts.append((x, y))
+    if pts:
+        subpaths.append(pts)
+    out = [np.asarray(p, dtype=float).reshape(-1, 2) for p in subpaths]
+    return [p[np.isfinite(p).all(axis=1)] for p in out]
 
 
-def _shape_box(el, tag: str):
-    """``(points, closed)`` outlining a shape in its own user units, or None."""
+def _shape(el, tag: str, path):
+    """``(subpaths, closed, exact_area)`` outlining a shape in its own user units
+    (``exact_area``: the fill area when known exactly, else None), or None."""
     g = lambda k, d=0.0: _length(el.get(k), d)  # noqa: E731
     if tag in ("rect", "image"):
         x, y, w, h = g("x"), g("y"), g("width"), g("height")
-        return np.array([[x, y], [x + w, y], [x + w, y + h], [x, y + h]]), True
+        return [np.array([[x, y], [x + w, y], [x + w, y + h], [x, y + h]])], True, None
     if tag in ("circle", "ellipse"):
         cx, cy = g("cx"), g("cy")
         rx = g("r") if tag == "circle" else g("rx")
         ry = g("r") if tag == "circle" else g("ry")
-        a = np.linspace(0, 2 * np.pi, 17)[:-1]
-        return np.stack([cx + rx * np.cos(a), cy + ry * np.sin(a)], -1), True
+        a = np.linspace(0, 2 * np.pi, 65)[:-1]
+        return [np.stack([cx + rx * np.cos(a), cy + ry * np.sin(a)], -1)], True, None
     if tag == "line":
-        return np.array([[g("x1"), g("y1")], [g("x2"), g("y2")]]), False
+        return [np.array([[g("x1"), g("y1")], [g("x2"), g("y2")]])], False, None
+    text = el.get("points" if tag in ("polygon", "polyline") else "d", "")
+    if len(text) > MAX_PATH_DATA:
+        raise _error(path, f"refused: a <{tag}> has {len(text)} characters of path data, more than "
+                           f"the {MAX_PATH_DATA} allowed (limit MAX_PATH_DATA)")
     if tag in ("polygon", "polyline"):
-        v = [float(n) for n in _NUM.findall(el.get("points", ""))]
-        return np.asarray(v[: len(v) // 2 * 2], dtype=float).reshape(-1, 2), tag == "polygon"
+        v = np.asarray([float(n) for n in _NUM.findall(text)], dtype=float)
+        pts = v[: len(v) // 2 * 2].reshape(-1, 2)
+        return [pts[np.isfinite(pts).all(axis=1)]], tag == "polygon", None
     if tag == "path":
-        d = el.get("d", "")
-        return _path_points(d), bool(re.search(r"[Zz]", d))
+        return _path_subpaths(text), bool(re.search(r"[Zz]", text)), None
     return None
 
 
-def _measure(points: np.ndarray, closed: bool, m: np.ndarray):
-    """(area of the transformed bounding box, outline length) of a shape."""
-    if len(points) == 0:
-        return 0.0, 0.0
-    p = points @ m[:2, :2].T + m[:2, 2]
-    w, h = np.ptp(p[:, 0]), np.ptp(p[:, 1])
-    seg = np.diff(np.vstack([p, p[:1]]) if closed else p, axis=0)
-    return float(w * h), float(np.sqrt((seg * seg).sum(-1)).sum())
-
-
-# --- style ------------------------------------------------------------------
-
-def _declarations(text: str) -> dict:
-    out = {}
-    for part in (text or "").split(";"):
-        k, sep, v = part.partition(":")
-        k = k.strip().lower()
-        if sep and k in _PROPS:
-            out[k] = v.replace("!important", "").strip()
-    return out
-
-
-_SIMPLE = re.compile(r"^(\*|[A-Za-z][\w-]*)?((?:[.#][\w-]+)*)$")
-
-
-def _rules(root) -> tuple[list, int]:
-    """``[(specificity, order, tag, ids, classes, declarations)]`` from ``<style>``,
-    and how many selectors were too complex to apply."""
-    rules, skipped, order = [], 0, 0
-    for el in root.iter():
-        if _tag(el) != "style" or not el.text:
+def _measure(subpaths, closed: bool, m: np.ndarray):
+    """(fill area, outline length) of a shape after transform ``m``. The fill
+    area is the shoelace area of each subpath (SVG fills open subpaths as if
+    closed); the outline is closed only when the shape is."""
+    area = length = 0.0
+    for points in subpaths:
+        if len(points) == 0:
             continue
-        css = re.sub(r"/\*.*?\*/", "", el.text, flags=re.S)
-        css = re.sub(r"@[^{;]*;", "", css)
-        for selectors, body in re.findall(r"([^{}]+)\{([^{}]*)\}", css):
-            decls = _declarations(body)
-            if not decls:
-                continue
-            for sel in selectors.split(","):
-                sel = sel.strip()
-                m = _SIMPLE.match(sel)
-                if not sel or not m:
-                    skipped += 1
-                    continue
-                tag = m.group(1) if m.group(1) not in (None, "*") else None
-                ids = re.findall(r"#([\w-]+)", m.group(2))
-                classes = re.findall(r"\.([\w-]+)", m.group(2))
-                spec = (len(ids), len(classes), 1 if tag else 0)
-                rules.append((spec, order, tag, ids, classes, decls))
-                order += 1
-    rules.sort(key=lambda r: (r[0], r[1]))
-    return rules, skipped
+        p = points @ m[:2, :2].T + m[:2, 2]
+        x, y = p[:, 0], p[:, 1]
+        area += 0.5 * abs(float(x[:-1] @ y[1:] - y[:-1] @ x[1:] + x[-1] * y[0] - y[-1] * x[0]))
+        seg = np.diff(np.vstack([p, p[:1]]) if closed else p, axis=0)
+        length += float(np.sqrt((seg * seg).sum(-1)).sum())
+    return area, length
 
 
-def _own_style(el, rules) -> dict:
-    """Properties set on the element itself: attributes < rules < style attribute."""
-    style = {k: el.get(k) for k in _PROPS if el.get(k) is not None}
-    tag, ident = _tag(el), el.get("id")
-    classes = set((el.get("class") or "").split())
-    for _, _, rtag, ids, rclasses, decls in rules:
-        if (rtag is None or rtag == tag) and all(i == ident for i in ids) and set(rclasses) <= classes:
-            style.update(decls)
-    style.update(_declarations(el.get("style", "")))
-    return style
+_IDENTITY = np.eye(3)
 
+
+def _scale_of(m: np.ndarray):
+    """``(|det|, s)`` of the linear part of ``m``; ``s`` is the length factor when
+    ``m`` is a similarity (rotation, uniform scale, reflection), else None."""
+    a, b, c, d = float(m[0, 0]), float(m[1, 0]), float(m[0, 1]), float(m[1, 1])
+    n1, n2, dot = a * a + b * b, c * c + d * d, a * c + b * d
+    tol = 1e-9 * max(n1, n2, 1e-300)
+    return abs(a * d - b * c), (math.sqrt(n1) if abs(n1 - n2) <= tol and abs(dot) <= tol else None)
+
+
+# --- parsing ----------------------------------------------------------------
+
+def _parse(path: Path):
+    """The root of a safely parsed SVG file; raises ReadError."""
+    import defusedxml
+    from defusedxml import ElementTree as SafeET
+
+    doctype = {}
+
+    class _Parser(SafeET.DefusedXMLParser):
+        def defused_start_doctype_decl(self, name, sysid, pubid, has_internal_subset):
+            doctype.update(name=name, sysid=sysid, pubid=pubid, subset=has_internal_subset)
+            if not (pubid or "").startswith(_SVG_PUBLIC_ID) and sysid:
+                raise defusedxml.DTDForbidden(name, sysid, pubid)
+
+    try:
+        parser = _Parser(forbid_dtd=True, forbid_entities=True, forbid_external=True)
+        root = SafeET.parse(str(path), parser=parser).getroot()
+    except defusedxml.EntitiesForbidden:
+        raise _error(path, "refused: the file declares XML entities (as entity-expansion bombs do)") from None
+    except defusedxml.DTDForbidden:
+        raise _error(path, f"refused: the file refers to an external DTD ({doctype.get('sysid')}); "
+                           f"only the standard SVG one is allowed, and never loaded") from None
+    except defusedxml.ExternalReferenceForbidden:
+        raise _error(path, "refused: the file refers to external entities or DTDs") from None
+    except defusedxml.DefusedXmlException as e:
+        raise _error(path, f"refused: unsafe XML ({e})") from None
+    except SafeET.ParseError as e:
+        raise _error(path, f"not well-formed XML ({e})") from None
+    except RecursionError:
+        raise _error(path, "refused: elements nested too deeply") from None
+    except OSError as e:
+        raise _error(path, f"cannot read ({e.strerror or e})") from None
+    if doctype.get("subset"):
+        raise _error(path, "refused: the file has its own DTD subset (declarations inside <!DOCTYPE [...]>)")
+    if _tag(root) != "svg":
+        raise _error(path, f"not an SVG file (the root element is <{_tag(root)}>)")
+    if root.tag != _NS + "svg":
+        ns = root.tag[1:].split("}")[0] if root.tag.startswith("{") else "none"
+        raise _error(path, f"not an SVG file: the root <svg> is not in the SVG namespace "
+                           f"(xmlns=\"http://www.w3.org/2000/svg\" missing; namespace: {ns})")
+    n = sum(1 for _ in root.iter())
+    if n > MAX_SVG_ELEMENTS:
+        raise _error(path, f"refused: {n} elements, more than the {MAX_SVG_ELEMENTS} allowed "
+                           f"(limit MAX_SVG_ELEMENTS)")
+    level, depth = [root], 0
+    while level:
+        depth += 1
+        if depth > MAX_SVG_DEPTH:
+            raise _error(path, f"refused: elements nested more than {MAX_SVG_DEPTH} deep (limit MAX_SVG_DEPTH)")
+        level = [c for el in level for c in el]
+    return root
+
+
+# --- paint ------------------------------------------------------------------
 
 class _Painter:
     def __init__(self, root, path, notes):
         self.root, self.path, self.notes = root, path, notes
         self.ids = {el.get("id"): el for el in root.iter() if el.get("id")}
-        self.rules, skipped = _rules(root)
-        if skipped:
-            notes.append(f"{skipped} CSS selector(s) too complex to apply were skipped")
-        self.colors, self.weights = [], []
+        texts = [el.text or "" for el in root.iter() if _tag(el) == "style"]
+        self.cascade = Cascade(root, path, texts, notes)
+        self.colors, self.weights, self.flat = [], [], []  # flat: the part painted by fills
         self.background = None
         self.canvas = None
         self.external = 0
+        self.images = 0
+        self.painted = 0
+        self.skipped = {}  # what could not be read -> how many shapes
+        self.deadline = time.monotonic() + MAX_SVG_SECONDS
+        self.gradients = set()
+        self.shapes = {}  # id(element) -> its geometry in its own units
+        self.paints = {}  # (value, color, alpha) -> paint
+
+    def skip(self, what: str) -> None:
+        self.skipped[what] = self.skipped.get(what, 0) + 1
 
     def paint_value(self, value, style, alpha):
         """``[(rgba, share)]`` for a fill/stroke value; [] for none."""
+        key = (value, style.get("color"), alpha)
+        got = self.paints.get(key)
+        if got is None:  # empty answers are not kept: each skipped paint is counted
+            got = self.read_paint(value, style, alpha)
+            if got:
+                self.paints[key] = got
+        return got
+
+    def read_paint(self, value, style, alpha):
         v = (value or "").strip()
         if not v or v in ("none", "transparent"):
             return []
         if v.startswith("url("):
             ref = re.match(r"url\(\s*['\"]?#([^)'\"]+)['\"]?\s*\)", v)
-            grad = self.ids.get(ref.group(1)) if ref else None
-            if grad is not None and _tag(grad) in ("linearGradient", "radialGradient"):
-                stops = self.stops(grad)
-                return [((*rgb, a * alpha), 1.0 / len(stops)) for rgb, a in stops] if stops else []
+            target = self.ids.get(ref.group(1)) if ref else None
+            kind = _tag(target) if target is not None else None
+            if kind in ("linearGradient", "radialGradient"):
+                samples = self.gradient(target)
+                if samples:
+                    self.gradients.add(ref.group(1))
+                    return [((*rgb, a * alpha), 1.0 / len(samples)) for rgb, a in samples]
             fallback = v[v.index(")") + 1 :].strip()
-            return self.paint_value(fallback, style, alpha) if fallback else []
+            if fallback:
+                return self.read_paint(fallback, style, alpha)
+            self.skip("pattern" if kind == "pattern" else "gradient without stops" if kind else
+                      "reference to a missing paint server")
+            return []
         if v.lower() == "currentcolor":
             v = style.get("color", "black")
         try:
             rgb, a = parse_color(v)
         except ColorError:
+            self.skip(f"unreadable paint {v[:40]!r}")
             return []
         return [((*rgb, a * alpha), 1.0)]
 
@@ -254,58 +367,87 @@ class _Painter:
         out = []
         for st in grad:
             if _tag(st) == "stop":
-                s = _own_style(st, self.rules)
+                s = self.cascade.own(st)
                 try:
                     rgb, a = parse_color(s.get("stop-color", "black"))
                 except ColorError:
                     continue
-                out.append((rgb, a * _opacity(s.get("stop-opacity"))))
+                off = s.get("offset", st.get("offset", "0")).strip()
+                try:
+                    o = float(off[:-1]) / 100 if off.endswith("%") else float(off)
+                except ValueError:
+                    o = 0.0
+                o = min(1.0, max(0.0, o)) if math.isfinite(o) else 0.0
+                out.append((max([o] + [p[0] for p in out]), np.asarray(rgb, float),
+                            a * _opacity(s.get("stop-opacity"))))
         href = grad.get("href") or grad.get(_XLINK)
-        if not out and href and href.startswith("#") and depth < 8:
+        if not out and href and href.startswith("#") and depth < MAX_USE_DEPTH:
             ref = self.ids.get(href[1:])
             if ref is not None:
                 return self.stops(ref, depth + 1)
         return out
 
-    def add(self, paints, weight, alpha_scale=1.0):
+    def gradient(self, grad):
+        """The stops ``[(rgb, alpha)]`` of a gradient: the colours its author chose
+        (a gradient of many stops, as a colour bar, reads as a continuous scale)."""
+        return [(tuple(s[1]), s[2]) for s in self.stops(grad)]
+
+    def add(self, paints, weight, alpha_scale=1.0, fill=True):
         for (r, g, b, a), share in paints:
             a *= alpha_scale
             if weight * share > 0 and a > 0:
                 self.colors.append((r, g, b, 255.0 * min(1.0, a)))
                 self.weights.append(weight * share)
+                self.flat.append(weight * share if fill else 0.0)
 
-    def walk(self, el, inherited, m, opacity, depth=0):
-        if depth > 200:
-            return
+    def tick(self):
+        self.painted += 1
+        if self.painted > MAX_PAINTED:
+            raise _error(self.path, f"refused: more than {MAX_PAINTED} elements to paint once <use> "
+                                    f"copies are expanded (limit MAX_PAINTED)")
+        if self.painted % 256 == 0 and time.monotonic() > self.deadline:
+            raise _error(self.path, f"refused: reading took more than {MAX_SVG_SECONDS:g} s "
+                                    f"(limit MAX_SVG_SECONDS)")
+
+    def walk(self, el, inherited, m, opacity, uses=()):
         tag = _tag(el)
         if tag in _SKIP:
             return
-        own = _own_style(el, self.rules)
+        self.tick()
+        own = self.cascade.own(el)
         if own.get("display", "").strip() == "none":
             return
         style = {k: v for k, v in inherited.items() if k in _INHERITED}
         style.update(own)
-        m = m @ _transform(el.get("transform"))
+        if el.get("transform"):
+            m = m @ _transform(el.get("transform"))
         opacity *= _opacity(own.get("opacity"))
         if tag == "use":
             href = el.get("href") or el.get(_XLINK) or ""
             ref = self.ids.get(href[1:]) if href.startswith("#") else None
-            if ref is not None and depth < 50:
+            if ref is None:
+                return
+            if href in uses or any(x is el for x in ref.iter()):
+                raise _error(self.path, f"refused: <use> of {href} refers to itself")
+            if len(uses) >= MAX_USE_DEPTH:
+                raise _error(self.path, f"refused: <use> copies nested more than {MAX_USE_DEPTH} deep "
+                                        f"(limit MAX_USE_DEPTH)")
+            x, y = _length(el.get("x")), _length(el.get("y"))
+            if x or y:
                 t = np.eye(3)
-                t[0, 2], t[1, 2] = _length(el.get("x")), _length(el.get("y"))
-                self.walk_ref(ref, style, m @ t, opacity, depth + 1)
+                t[0, 2], t[1, 2] = x, y
+                m = m @ t
+            t = _IDENTITY
+            if _tag(ref) == "symbol":
+                for child in ref:
+                    self.walk(child, style, m @ t, opacity, uses + (href,))
+            else:
+                self.walk(ref, style, m @ t, opacity, uses + (href,))
             return
         if tag in _SHAPES and style.get("visibility", "visible") not in ("hidden", "collapse"):
             self.shape(el, tag, style, m, opacity)
         for child in el:
-            self.walk(child, style, m, opacity, depth + 1)
-
-    def walk_ref(self, ref, style, m, opacity, depth):
-        if _tag(ref) == "symbol":
-            for child in ref:
-                self.walk(child, style, m, opacity, depth + 1)
-        else:
-            self.walk(ref, style, m, opacity, depth)
+            self.walk(child, style, m, opacity, uses)
 
     def shape(self, el, tag, style, m, opacity):
         if tag == "image":
@@ -313,14 +455,13 @@ class _Painter:
             return
         if tag == "text":
             text = "".join(el.itertext()).strip()
-            size = _length(style.get("font-size"), 16.0) * math.sqrt(abs(np.linalg.det(m[:2, :2])))
+            size = _length(style.get("font-size"), 16.0) * math.sqrt(_scale_of(m)[0])
             fill = self.paint_value(style.get("fill", "black"), style, _opacity(style.get("fill-opacity")))
-            self.add(fill, 0.5 * len(text) * size * size, opacity)
+            self.add(fill, 0.5 * len(text) * size * size, opacity, fill=False)
             return
-        box = _shape_box(el, tag)
-        if box is None:
+        area, length = self.geometry(el, tag, m)
+        if area is None:
             return
-        area, length = _measure(box[0], box[1], m)
         fill = [] if tag == "line" else self.paint_value(style.get("fill", "black"), style,
                                                            _opacity(style.get("fill-opacity")))
         if self.background is None and fill and self.canvas and area >= 0.9 * self.canvas \
@@ -328,34 +469,63 @@ class _Painter:
             self.background = fill[0][0][:3]
             return
         self.add(fill, area, opacity)
-        width = _length(style.get("stroke-width"), 1.0) * math.sqrt(abs(np.linalg.det(m[:2, :2])))
+        width = _length(style.get("stroke-width"), 1.0) * math.sqrt(_scale_of(m)[0])
         stroke = self.paint_value(style.get("stroke", "none"), style, _opacity(style.get("stroke-opacity")))
-        self.add(stroke, length * width, opacity)
+        self.add(stroke, length * width, opacity, fill=False)
+
+    def geometry(self, el, tag, m):
+        """(area, outline length) of a shape under ``m``; the shape's own geometry
+        is measured once, however many ``<use>`` copies draw it."""
+        key = id(el)
+        local = self.shapes.get(key)
+        if local is None:
+            got = _shape(el, tag, self.path)
+            if got is None:
+                local = (None, None, None, None)
+            else:
+                area, length = _measure(got[0], got[1], _IDENTITY)
+                local = (got[0], got[1], area, length)
+            self.shapes[key] = local
+        subpaths, closed, area, length = local
+        if subpaths is None:
+            return None, None
+        det, scale = _scale_of(m)
+        if scale is not None:
+            return area * det, length * scale
+        return _measure(subpaths, closed, m)
 
     def image(self, el, m, opacity):
+        from .raster import counts_from_image, open_image_bytes
+
         href = el.get("href") or el.get(_XLINK) or ""
-        match = re.match(r"data:image/(png|jpeg|jpg|webp);base64,(.*)", href.strip(), re.S)
+        match = re.match(r"data:image/(png|jpeg|jpg|webp);base64,", href[:64].strip())
         if not match:
             self.external += 1
             return
-        data = match.group(2)
-        if len(data) > MAX_SVG_BYTES:
-            self.notes.append("an embedded image is too large and was skipped")
-            return
+        self.images += 1
+        if self.images > MAX_EMBEDDED_IMAGES:
+            raise _error(self.path, f"refused: more than {MAX_EMBEDDED_IMAGES} embedded images "
+                                    f"(limit MAX_EMBEDDED_IMAGES)")
+        data = href.strip()[match.end():]
         try:
             im = open_image_bytes(base64.b64decode(data), f"{self.path} (embedded image)")
-            counts = counts_from_image(im, lossy=match.group(1) != "png")
+            try:
+                counts = counts_from_image(im, lossy=match.group(1) != "png")
+            finally:
+                im.close()
         except Exception as e:  # noqa: BLE001 - report and go on with the rest of the file
             self.notes.append(f"an embedded image could not be read ({str(e).split(': ', 1)[-1]})")
             return
-        box = _shape_box(el, "image")
-        area, _ = _measure(box[0], box[1], m)
+        got = _shape(el, "image", self.path)
+        area, _ = _measure(got[0], True, m)
         total = counts.weights.sum()
         if area <= 0 or total <= 0:
             return
-        for rgba, w in zip(counts.rgba, counts.weights):  # pixels -> the area they are shown on
+        flat = counts.weights if counts.flat is None else counts.flat
+        for rgba, w, f in zip(counts.rgba, counts.weights, flat):  # pixels -> the area they are shown on
             self.colors.append((*rgba[:3], rgba[3] * opacity))
             self.weights.append(w * area / total)
+            self.flat.append(f * area / total)
 
 
 def _opacity(text) -> float:
@@ -371,31 +541,15 @@ def _opacity(text) -> float:
 
 def read_counts(path) -> ColorCounts:
     """Parse an SVG safely and collect its paint; raises ReadError."""
-    import defusedxml
-    from defusedxml import ElementTree as SafeET
-
     path = Path(path)
     size = file_size(path)
     if size > MAX_SVG_BYTES:
         raise _error(path, f"{size} bytes is more than the {MAX_SVG_BYTES // 2**20} MB allowed for an SVG")
-    try:
-        root = SafeET.parse(str(path), forbid_dtd=False, forbid_entities=True, forbid_external=True).getroot()
-    except defusedxml.EntitiesForbidden:
-        raise _error(path, "refused: the file declares XML entities (as entity-expansion bombs do)") from None
-    except (defusedxml.ExternalReferenceForbidden, defusedxml.DTDForbidden):
-        raise _error(path, "refused: the file refers to external entities or DTDs") from None
-    except defusedxml.DefusedXmlException as e:
-        raise _error(path, f"refused: unsafe XML ({e})") from None
-    except SafeET.ParseError as e:
-        raise _error(path, f"not well-formed XML ({e})") from None
-    except OSError as e:
-        raise _error(path, f"cannot read ({e.strerror or e})") from None
-    if _tag(root) != "svg":
-        raise _error(path, f"not an SVG file (the root element is <{_tag(root)}>)")
+    root = _parse(path)
     notes: list[str] = []
     painter = _Painter(root, path, notes)
-    vb = [float(v) for v in _NUM.findall(root.get("viewBox", ""))]
-    if len(vb) == 4 and vb[2] > 0 and vb[3] > 0:
+    vb = [float(v) for v in _NUM.findall(root.get("viewBox", "")[:200])]
+    if len(vb) == 4 and vb[2] > 0 and vb[3] > 0 and all(math.isfinite(v) for v in vb):
         painter.canvas = vb[2] * vb[3]
         size_px = (vb[2], vb[3])
     else:
@@ -405,17 +559,25 @@ def read_counts(path) -> ColorCounts:
     painter.walk(root, {"fill": "black", "color": "black"}, np.eye(3), 1.0)
     if painter.external:
         notes.append(f"{painter.external} linked image(s) outside the file were not fetched")
+    if painter.gradients:
+        notes.append(f"{len(painter.gradients)} gradient(s) read as their stop colours, equally weighted")
+    for what, n in sorted(painter.skipped.items()):
+        notes.append(f"{n} paint(s) skipped, colours not read: {what}")
     rgba = np.asarray(painter.colors, dtype=float).reshape(-1, 4)
     weights = np.asarray(painter.weights, dtype=float)
+    flat = np.asarray(painter.flat, dtype=float)
+    keep = np.isfinite(weights) & np.isfinite(rgba).all(axis=1) & np.isfinite(flat)
+    rgba, weights, flat = rgba[keep], weights[keep], flat[keep]
     if painter.background is not None:
         border = np.asarray([(*painter.background, 255.0)])
         rgba = np.vstack([rgba, border])
         weights = np.append(weights, max(weights.sum(), 1.0) * 1e-6)
+        flat = np.append(flat, weights[-1])
         border_w = np.ones(1)
     else:
         border, border_w = np.zeros((0, 4)), np.zeros(0)
-    size = tuple(int(round(v)) for v in size_px) if size_px else None
-    return ColorCounts(rgba, weights, border, border_w, flat=None, exact=True, lossy=False,
+    size = tuple(int(round(v)) for v in size_px) if size_px and all(v < 1e7 for v in size_px) else None
+    return ColorCounts(rgba, weights, border, border_w, flat=flat, exact=True, lossy=False,
                        size=size, notes=tuple(notes))
 
 
