@@ -111,6 +111,16 @@ def emit(text: str, output: str | None, inputs=(), default_name: str = "report")
     click.echo(f"wrote {path}", err=True)
 
 
+def _figures(fmt: str, output: str | None, default_name: str, inputs=()):
+    """A Markdown report's figure files, written beside the report (None for other formats)."""
+    if fmt != "markdown":
+        return None
+    from .report import figure_files
+    from .report.write import output_path
+
+    return figure_files(fmt, output_path(output, default_name) if output else None, inputs)
+
+
 def _stem(sources) -> str:
     return os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
 
@@ -142,8 +152,9 @@ def check_cmd(sources, suggest, backgrounds, kind, fmt, output, **options):
         from .repair import suggestions
 
         result.suggestions = suggestions(result)
-    emit(render(result, fmt, color=_use_color() and output is None), output, sources,
-         f"{_stem(sources)}-check.{REPORT_EXTENSIONS[fmt]}")
+    name = f"{_stem(sources)}-check.{REPORT_EXTENSIONS[fmt]}"
+    emit(render(result, fmt, color=_use_color() and output is None, figures=_figures(fmt, output, name, sources)),
+         output, sources, name)
     sys.exit(0 if result.passed else 1)
 
 
@@ -180,8 +191,9 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, backgrounds
         click.echo(f"palettecheck: {message}", err=True)
     if not report.images and not report.errors:
         raise click.UsageError(f"no chart images found in {', '.join(paths)}")
-    emit(render_scan(report, fmt, color=_use_color() and output is None), output, paths,
-         f"scan.{REPORT_EXTENSIONS[fmt]}")
+    name = f"scan.{REPORT_EXTENSIONS[fmt]}"
+    emit(render_scan(report, fmt, color=_use_color() and output is None, figures=_figures(fmt, output, name, paths),
+                     jobs=jobs or 2), output, paths, name)
     sys.exit(report.exit_code)
 
 
@@ -212,7 +224,8 @@ def _progress_bar():
                    "1 turns it off here and in the check (default 3, 4.5 for text).")
 @click.option("--seed", type=int, default=0, show_default=True, help="Categorical: the same seed gives the same palette.")
 @common_options(formats=GENERATE_FORMATS,
-                format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib.")
+                format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib, "
+                            "markdown or html (a page with the palette under every vision and its figures).")
 def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
                  **options):
     """Make a palette that passes the checks, and show how it scores. Exit 1 when the
@@ -235,8 +248,9 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
     else:
         request.update(colors=bases)
     gen = generate_palette(palette_kind, count, **request)
-    emit(render_generated(gen, fmt, color=_use_color() and output is None), output, (),
-         f"{palette_kind}-palette.{GENERATE_EXTENSIONS[fmt]}")
+    name = f"{palette_kind}-palette.{GENERATE_EXTENSIONS[fmt]}"
+    emit(render_generated(gen, fmt, color=_use_color() and output is None, figures=_figures(fmt, output, name)),
+         output, (), name)
     sys.exit(0 if gen.passed else 1)
 
 
@@ -244,7 +258,9 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
 @click.argument("sources", nargs=-1, required=True)
 @click.option("--keep", multiple=True, metavar="COLOUR", type=COLOR,
               help="Lock this palette colour: it never moves (repeatable; JSON palettes may lock too).")
-@common_options
+@common_options(formats=REPORT_FORMATS,
+                format_help="Output: text (the repaired palette in its own format; moves on stderr), json "
+                            "(everything), markdown or html (a page: before and after, the moves drawn).")
 def fix_cmd(sources, keep, fmt, output, **options):
     """Suggest the smallest colour changes that make a palette pass. The repaired
     palette is written in the format it came in (to --output, or stdout) and the
@@ -265,6 +281,9 @@ def fix_cmd(sources, keep, fmt, output, **options):
     text, name = write_back(sources, palette, result.palette.hexes)
     if fmt == "json":
         text, name = render_repair(result, "json"), f"{os.path.splitext(name)[0]}.json"
+    elif fmt in ("markdown", "html"):
+        name = f"{_stem(sources)}-fix.{REPORT_EXTENSIONS[fmt]}"
+        text = render_repair(result, fmt, figures=_figures(fmt, output, name, sources))
     else:
         click.echo(render_repair(result, "text", color=_use_color()), err=True, nl=False)
     emit(text, output, sources, name)

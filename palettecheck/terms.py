@@ -55,7 +55,8 @@ SEVERITY_TITLES = {ERROR: "Errors", WARNING: "Warnings", INFO: "Notes"}
 REPORT_EXTENSIONS = {"text": "txt", "json": "json", "markdown": "md", "html": "html"}
 REPORT_FORMATS = tuple(REPORT_EXTENSIONS)
 #: Output formats of ``generate``, with the file suffix of each.
-GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py"}
+GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py",
+                       "markdown": "md", "html": "html"}
 GENERATE_FORMATS = tuple(GENERATE_EXTENSIONS)
 
 #: Chart image files that ``scan`` reads: raster formats (Pillow) and SVG.

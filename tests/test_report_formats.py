@@ -156,8 +156,12 @@ def test_html_escapes_user_strings(hostile):
 
 def test_html_is_self_contained(brand):
     page = render(brand, "html")
-    for banned in ("http://", "https://", "<script", "<link", "@import", "url(", "<img", "<iframe", "src="):
+    for banned in ("http://", "https://", "<script", "<link", "@import", "<iframe", "<object", "<embed"):
         assert banned not in page, banned
+    # figures are inline: a url() points into the page, an image source is data
+    assert re.findall(r"url\(([^)]*)\)", page) and all(u.startswith("#") for u in re.findall(r"url\(([^)]*)\)", page))
+    assert all(src.startswith("data:image/") for src in re.findall(r'src="([^"]*)"', page))
+    assert re.findall(r'href="([^"]*)"', page) and all(h.startswith("#") for h in re.findall(r'href="([^"]*)"', page))
     assert '<meta name="color-scheme" content="light dark">' in page
     assert "prefers-color-scheme: dark" in page and "@media print" in page
 
@@ -165,6 +169,7 @@ def test_html_is_self_contained(brand):
 def test_html_colour_strings_reach_styles_only_as_hex():
     palette = make_palette([("#abc", None, False), ("rgb(10 20 30)", "x", False)])
     page = render(check_palette(palette), "html")
+    page = re.sub(r"<svg.*?</svg>", "", page, flags=re.S)  # figures: styled by matplotlib, colours as hex
     styles = re.findall(r'style="([^"]*)"', page)
     assert styles and all(re.fullmatch(r"background:#[0-9a-f]{6}(;color:#[0-9a-f]{6})?", s) for s in styles)
 
@@ -182,12 +187,9 @@ def test_check_formats_keep_exit_codes(invoke, fmt):
 
 
 def test_every_report_format_is_offered(invoke):
-    for command in ("check", "scan"):
+    for command in ("check", "scan", "fix", "generate"):
         res = invoke(command, "--help")
-        assert all(f in res.stdout for f in FORMATS)
-    for command in ("fix", "generate categorical"):
-        res = invoke(*command.split(), "#1d3b6e", "--format", "html")
-        assert res.exit_code == 2 and "--format" in res.stderr  # these keep their own formats
+        assert all(f in res.stdout for f in FORMATS), command
 
 
 @pytest.mark.parametrize("fmt, ext", [("markdown", "md"), ("html", "html")])
@@ -196,7 +198,8 @@ def test_reports_into_a_folder_get_the_extension(invoke, tmp_path, charts, fmt, 
     out.mkdir()
     assert invoke("check", BRAND, "--format", fmt, "--output", str(out)).exit_code == 1
     assert invoke("scan", str(charts), "--jobs", "1", "--format", fmt, "--output", str(out)).exit_code == 1
-    assert sorted(p.name for p in out.iterdir()) == sorted([f"kestrel-brand-check.{ext}", f"scan.{ext}"])
+    reports = sorted(p.name for p in out.iterdir() if p.suffix != ".png")
+    assert reports == sorted([f"kestrel-brand-check.{ext}", f"scan.{ext}"])
     assert CAUTION[:40] in (out / f"scan.{ext}").read_text(encoding="utf-8")
 
 
@@ -207,11 +210,16 @@ def test_scan_markdown(invoke, charts):
     md = res.stdout
     assert md.startswith("# Chart scan\n") and md_escape(CAUTION) in md
     assert "2 charts checked: 1 passed, 1 failed; 1 file could not be read" in md
-    rows = table_rows(md)
+    summary = md[md.index("| chart"):]
+    rows = table_rows(summary[:summary.index("\n\n")])
     assert rows[0] == [" chart ", " background ", " colours ", " score ", " result ", " main problem "]
     results = {r[0].strip(): r[4].strip() for r in rows[2:]}
-    assert results == {md_escape(charts / "bad <b>.svg"): "fails", md_escape(charts / "good.svg"): "passes",
+    assert results == {f"[{md_escape(charts / 'bad <b>.svg')}](#chart-1)": "fails",
+                       f"[{md_escape(charts / 'good.svg')}](#chart-2)": "passes",
                        md_escape(charts / "broken.png"): "not read"}
+    for k, path in ((1, "bad <b>.svg"), (2, "good.svg")):  # a section per chart, linked from the table
+        assert f'<a id="chart-{k}"></a>' in md and f"## {k}. {md_escape(charts / path)}" in md
+    assert "write it with `--output`" in md  # no folder for the thumbnails
 
 
 def test_scan_html(invoke, charts):

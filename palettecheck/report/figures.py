@@ -20,7 +20,7 @@ from ..read.raster import apply_icc, open_image
 from ..terms import VISION_TITLES, VISIONS
 from .write import write_atomic_with
 
-__all__ = ["simulate_image", "simulated_views"]
+__all__ = ["simulate_image", "simulated_views", "simulated_one"]
 
 def _decode(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
     """sRGB ``(h, w, 3)`` uint8 pixels and alpha (or None) of a raster image."""
@@ -40,18 +40,30 @@ def _decode(path: Path) -> tuple[np.ndarray, np.ndarray | None, list]:
     return pixels, alpha, notes
 
 
-def simulated_views(pixels: np.ndarray, severity: float = 1.0, method: str = "machado") -> dict:
-    """``{vision: (h, w, 3) uint8}`` for every vision, from sRGB uint8 pixels."""
+def _distinct(pixels: np.ndarray):
     flat = pixels.reshape(-1, 3)
     packed = (flat[:, 0].astype(np.uint32) << 16) | (flat[:, 1].astype(np.uint32) << 8) | flat[:, 2]
     unique, inverse = np.unique(packed, return_inverse=True)
     colours = np.stack([(unique >> 16) & 255, (unique >> 8) & 255, unique & 255], axis=-1).astype(float)
-    out = {}
-    for vision in VISIONS:
-        seen = simulate(colours, vision, severity, method)
-        seen = np.clip(np.floor(seen + 0.5), 0, 255).astype(np.uint8)
-        out[vision] = seen[inverse.reshape(-1)].reshape(pixels.shape)
-    return out
+    return colours, inverse.reshape(-1)
+
+
+def _seen(colours, inverse, shape, vision, severity, method) -> np.ndarray:
+    seen = simulate(colours, vision, severity, method)
+    seen = np.clip(np.floor(seen + 0.5), 0, 255).astype(np.uint8)
+    return seen[inverse].reshape(shape)
+
+
+def simulated_views(pixels: np.ndarray, severity: float = 1.0, method: str = "machado", visions=VISIONS) -> dict:
+    """``{vision: (h, w, 3) uint8}`` for every vision, from sRGB uint8 pixels."""
+    colours, inverse = _distinct(pixels)
+    return {v: _seen(colours, inverse, pixels.shape, v, severity, method) for v in visions}
+
+
+def simulated_one(pixels: np.ndarray, vision: str, severity: float = 1.0, method: str = "machado") -> np.ndarray:
+    """One vision's view of sRGB uint8 pixels ``(h, w, 3)``."""
+    colours, inverse = _distinct(pixels)
+    return _seen(colours, inverse, pixels.shape, vision, severity, method)
 
 
 def _save_png(array: np.ndarray, alpha, path: Path) -> None:

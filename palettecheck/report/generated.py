@@ -1,4 +1,5 @@
-"""A generated palette as text, JSON, a hex list, CSS custom properties or a matplotlib snippet."""
+"""A generated palette as text, JSON, a hex list, CSS custom properties, a matplotlib snippet,
+or a Markdown or HTML page."""
 
 from __future__ import annotations
 
@@ -22,11 +23,20 @@ def _summary(gen) -> str:
     return f"score {c.score.value}/100, {verdict} check ({where})"
 
 
-def render_generated(gen, fmt: str, color: bool = False) -> str:
+def render_generated(gen, fmt: str, color: bool = False, figures=None) -> str:
     """A :class:`palettecheck.generate.result.Generated` palette as ``text`` (palette, then the check report), ``json`` (DESIGN.md:
     ``{kind, colors, check, ...}``), ``hex`` (one per line, readable by ``check``),
-    ``css`` (custom properties) or ``matplotlib`` (a snippet to paste)."""
+    ``css`` (custom properties), ``matplotlib`` (a snippet to paste), or a document:
+    ``markdown`` (figures as PNG files through ``figures``) or ``html`` (one page)."""
     summary = _summary(gen)
+    if fmt == "markdown":
+        from .markdown import render_generated_markdown
+
+        return render_generated_markdown(gen, summary, figures)
+    if fmt == "html":
+        from .html import render_generated_html
+
+        return render_generated_html(gen, summary)
     why = [f"  {line}" for line in gen.explanation]
     if fmt == "json":
         return json.dumps({**gen.to_dict(), "caution": CAUTION}, indent=2, ensure_ascii=False) + "\n"
