@@ -298,22 +298,35 @@ def fix_cmd(sources, keep, fmt, output, **options):
               help="CVD severity, 0-1 (default 1: dichromacy).")
 @click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
               help="CVD simulation model (default machado).")
-def simulate_cmd(image, output, severity, cvd_model):
+@click.option("--outline", is_flag=True,
+              help="On the sheet, outline the regions drawn with colours that merge under each vision.")
+def simulate_cmd(image, output, severity, cvd_model, outline):
     """Show a chart image as each simulated vision sees it.
 
-    Writes one PNG per vision plus a sheet of all of them side by side."""
+    Writes one PNG per vision plus a sheet of all of them side by side, each panel
+    named after the condition it simulates at its severity."""
     from pathlib import Path
 
     from .errors import OutputError
     from .report.figures import simulate_image
 
     settings = _settings(severity=severity, cvd_model=cvd_model)
+    merges = None
+    if outline:
+        from .judge import check_sources
+
+        result = check_sources([image], settings)
+        merges = {v: [] for v in result.settings.visions}
+        for pair in result.pairs():
+            for vision, d in pair["delta_e"].items():
+                if d < result.settings.error_delta_e:
+                    merges.setdefault(vision, []).append((result.palette[pair["a"]].hex, result.palette[pair["b"]].hex))
     out = Path(output)
     try:
         out.mkdir(parents=True, exist_ok=True)
     except OSError as e:
         raise OutputError(f"{out}: cannot make the folder ({e.strerror or e})") from None
-    for path in simulate_image(image, out, settings.severity, settings.cvd_model):
+    for path in simulate_image(image, out, settings.severity, settings.cvd_model, merges):
         click.echo(str(path))
 
 
