@@ -239,3 +239,141 @@ def test_scan_html(invoke, charts):
     for image in json_out["images"]:
         for f in image["findings"]:
             assert html.escape(f["message"]) in page
+
+
+# --- figures ------------------------------------------------------------------------
+
+def svg_ids(page: str, prefix: str) -> list[str]:
+    return re.findall(rf'id="({re.escape(prefix)}[^"]*)"', page)
+
+
+def test_red_green_pair_is_marked_in_the_deuteranopia_matrix():
+    """The brand's Signal red and Pine green merge for a deuteranope: the matrix under
+    normal vision and deuteranopia boxes that pair as an error, and only as the
+    deuteranopia distance says."""
+    from colorspacious import cspace_convert
+
+    from palettecheck.report import plots
+
+    result = check_palette(read_source(BRAND), Settings(visions=("normal", "deuteranopia")))
+    red, green = 1, 2
+    assert (result.palette[red].hex, result.palette[green].hex) == ("#b8432f", "#4d8a34")
+    # C: colorspacious 1.1.2 directly (Machado 2009 deuteranomaly at severity 100, then CAM02-UCS)
+    seen = cspace_convert(np.array([rgb("#b8432f"), rgb("#4d8a34")]) / 255,
+                          {"name": "sRGB1+CVD", "cvd_type": "deuteranomaly", "severity": 100}, "sRGB1")
+    ucs = cspace_convert(np.clip(seen, 0, 1), "sRGB1", "CAM02-UCS")
+    assert float(np.linalg.norm(ucs[0] - ucs[1])) < result.settings.error_delta_e  # about 3.3
+    drawn = plots.matrix(result, plots.LIGHT)
+    assert (red, green, "error", "deuteranopia") in drawn.counts["marked"]
+    page = render(result, "html")
+    assert 'id="matrix-mark-error-1-2"' in page
+    assert len(svg_ids(page, "matrix-swatch-")) == 2 * len(result.palette)  # row and column headers
+    assert not svg_ids(page, "matrix-mark-error-0-")  # the navy is far from everything
+
+
+def test_every_figure_holds_every_colour(brand):
+    page = render(brand, "html")
+    n = len(brand.palette)
+    for vision in VISIONS:
+        assert len(svg_ids(page, f"plane-{vision}-point-")) == n, vision
+        assert len(svg_ids(page, f"plane-{vision}-hue-")) == n, vision
+    assert page.count('<svg class="plot"') == 1 + len(VISIONS)  # the matrix, one panel per vision
+    assert 'role="img" aria-label="' in page
+
+
+def test_ramp_profile_marks_the_failing_step():
+    """A ramp whose 3rd and 4th steps are nearly alike: the lightness figure marks
+    that step under every vision compared, and no other."""
+    from palettecheck.report import plots
+
+    steps = ["#f1eef6", "#bdc9e1", "#74a9cf", "#70a6cc", "#2b8cbe", "#045a8d"]
+    result = check_palette(make_palette([(h, None, False) for h in steps]), Settings(kind="sequential"))
+    drawn = plots.ramp_profile(result, plots.LIGHT)
+    assert {(i, j) for i, j, _ in drawn.counts["failing"]} == {(2, 3)}
+    assert drawn.counts["points"] == len(steps) * len(plots.visions_of(result.perceived))
+    page = render(result, "html")
+    assert ">Lightness along the ramp</h2>" in page and len(svg_ids(page, "lightness-fail-normal-2")) == 1
+
+
+def test_figures_follow_the_page_theme(brand):
+    """Inline figures draw text and axes with the page's CSS variables (so they read on
+    light and dark pages); the palette's own colours stay as they are."""
+    from palettecheck.report import plots
+
+    page = render(brand, "html")
+    svgs = re.findall(r'<svg class="plot".*?</svg>', page, re.S)
+    assert svgs and all("var(--fg)" in s for s in svgs)
+    assert not any(stand_in in page for stand_in in plots.SENTINELS.values() if stand_in)
+    assert "#b8432f" in svgs[0]
+
+
+def test_markdown_figures_are_files_beside_the_report(invoke, tmp_path):
+    from PIL import Image
+
+    out = tmp_path / "out"
+    out.mkdir()
+    assert invoke("check", BRAND, "--format", "markdown", "--output", str(out)).exit_code == 1
+    md = (out / "kestrel-brand-check.md").read_text(encoding="utf-8")
+    links = re.findall(r"!\[[^\]]*\]\(([^)]+)\)", md)
+    assert len(links) == 2 + len(VISIONS)  # strips, matrix, one panel per vision
+    for link in links:
+        assert "/" not in link and (out / link).is_file(), link  # relative, beside the report
+        with Image.open(out / link) as im:
+            im.verify()
+            assert im.format == "PNG"
+    assert md_escape(CAUTION) in md
+    stdout = invoke("check", BRAND, "--format", "markdown").stdout
+    assert "![" not in stdout and "`--output`" in stdout  # nowhere to write them: it says so
+
+
+def test_scan_markdown_thumbnails_open_as_images(invoke, tmp_path):
+    from helpers import draw, save
+    from PIL import Image
+
+    charts = tmp_path / "charts"
+    charts.mkdir()
+    for kind in ("bar", "line"):
+        fig, *_ = draw(kind)
+        save(fig, charts / f"{kind}.png", "png")
+    out = tmp_path / "out"
+    out.mkdir()
+    invoke("scan", str(charts), "--jobs", "1", "--format", "markdown", "--output", str(out))
+    md = (out / "scan.md").read_text(encoding="utf-8")
+    links = re.findall(r"!\[[^\]]*\]\(([^)]+)\)", md)
+    assert len(links) == 2 * 2  # per chart: as given, as the worst vision sees it
+    for link in links:
+        with Image.open(out / link) as im:
+            im.verify()
+    assert md.count("\n## 1. ") == 1 and md.count("\n## 2. ") == 1
+
+
+@pytest.mark.parametrize("fmt", ["markdown", "html"])
+def test_fix_and_generate_pages(invoke, tmp_path, fmt):
+    out = tmp_path / fmt
+    out.mkdir()
+    fixed = invoke("fix", BRAND, "--format", fmt, "--output", str(out))
+    assert fixed.exit_code == 0, fixed.stderr
+    ext = "md" if fmt == "markdown" else "html"
+    page = (out / f"kestrel-brand-fix.{ext}").read_text(encoding="utf-8")
+    assert "Palette repair" in page and "#4d8a34" in page and CAUTION[:40] in page
+    gen = invoke("generate", "sequential", "-n", "7", "--from", "#0f7c86", "--format", fmt, "--output", str(out))
+    assert gen.exit_code == 0, gen.stderr
+    page = (out / f"sequential-palette.{ext}").read_text(encoding="utf-8")
+    assert "A sample heat map" in page and "Lightness along the ramp" in page and CAUTION[:40] in page
+    if fmt == "html":
+        assert 'id="moves-deuteranopia-arrow-2"' in (out / "kestrel-brand-fix.html").read_text(encoding="utf-8")
+    else:
+        assert (out / "kestrel-brand-fix-moves-deuteranopia.png").is_file()
+        assert (out / "sequential-palette-heatmap.png").is_file()
+
+
+@pytest.mark.parametrize("vision, severity, label", [
+    ("deuteranopia", 1.0, "deuteranopia"), ("deuteranopia", 0.6, "deuteranomaly, severity 0.6"),
+    ("protanopia", 0.25, "protanomaly, severity 0.25"), ("tritanopia", 0.5, "tritanomaly, severity 0.5"),
+    ("normal", 0.6, "normal vision"),
+])
+def test_condition_names_follow_the_severity(vision, severity, label):
+    # the trade's terms: a dichromacy (-opia) is the complete form, an anomaly (-omaly) the partial
+    from palettecheck.report.facts import vision_label
+
+    assert vision_label(vision, severity) == label

@@ -59,7 +59,7 @@ h2 { font-size: 1.25em; margin: 32px 0 10px; padding-bottom: 4px; border-bottom:
 h3 { font-size: 1.05em; margin: 22px 0 8px; }
 h4 { font-size: 1em; margin: 16px 0 6px; }
 h2.chart-title { font-size: 1.3em; overflow-wrap: anywhere; }
-p, li, td, th, figcaption { overflow-wrap: anywhere; }
+p, li, td, figcaption { overflow-wrap: anywhere; }
 p { margin: 6px 0; }
 code, .hex { font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "Liberation Mono", monospace;
   font-size: 0.92em; }
@@ -78,9 +78,11 @@ table { border-collapse: collapse; margin: 6px 0; }
 th, td { text-align: left; padding: 6px 10px; border-bottom: 1px solid var(--line); vertical-align: middle; }
 th { background: var(--panel); font-weight: 600; }
 td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
+table.summary th, table.moves th { white-space: nowrap; overflow-wrap: normal; }
+table.summary td:nth-child(n+2):nth-child(-n+5) { white-space: nowrap; overflow-wrap: normal; }
 .settings th { background: none; color: var(--muted); font-weight: normal; width: 16em; }
 .share { white-space: nowrap; margin: 0 10px 4px 0; display: inline-block; }
-.chip { display: inline-block; min-width: 2.4em; padding: 2px 6px; border-radius: 4px; text-align: center;
+.chip { display: inline-block; white-space: nowrap; min-width: 2.4em; padding: 2px 6px; border-radius: 4px; text-align: center;
   font-weight: 600; font-size: 0.9em; box-shadow: inset 0 0 0 1px var(--edge); }
 .chip.wide { min-width: 4.5em; padding: 6px 8px; }
 .tag { display: inline-block; font-size: 0.8em; font-weight: 600; padding: 0 6px; border-radius: 3px;
@@ -128,7 +130,7 @@ svg.plot { display: block; max-width: 100%; height: auto; }
   table.cards, table.cards tbody, table.cards tr { display: block; width: 100%; }
   table.cards tr.head, table.cards td.idx { display: none; }
   table.cards tr { border: 1px solid var(--line); border-radius: 6px; padding: 4px 10px; margin: 0 0 8px; }
-  table.cards td { display: grid; grid-template-columns: 6.5em minmax(0, 1fr); gap: 8px; align-items: center;
+  table.cards td { display: grid; grid-template-columns: 6.5em minmax(0, 1fr); gap: 8px; align-items: baseline;
     border: none; padding: 3px 0; text-align: left; }
   table.cards td[data-label]::before { content: attr(data-label); color: var(--muted); font-size: 0.85em; }
   table.cards td > * { justify-self: start; }
@@ -231,7 +233,8 @@ def _row(cells, head: bool = False) -> str:
     when the table turns into cards on a narrow screen."""
     if head:
         return '<tr class="head">' + "".join(f'<th class="{c}">{h}</th>' for _, h, c in cells) + "</tr>"
-    return "<tr>" + "".join(f'<td class="{c}" data-label="{_e(lab)}">{h}</td>' for lab, h, c in cells) + "</tr>"
+    return "<tr>" + "".join(f'<td class="{c}" data-label="{_e(lab)}"><span class="v">{h}</span></td>'
+                            for lab, h, c in cells) + "</tr>"
 
 
 def figures_section(result, figures, h: str) -> list[str]:

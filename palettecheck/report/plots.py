@@ -460,9 +460,10 @@ def moves(repair, vision: str, theme: dict, limit: float | None = None, key: str
         if i in moved:
             ax.scatter([before[i, 1]], [before[i, 2]], s=110, facecolors="none", edgecolors=_safe(old[i]),
                        linewidths=2.2, zorder=3, gid=f"{key}-before-{i}")
-            ax.annotate("", xy=(after[i, 1], after[i, 2]), xytext=(before[i, 1], before[i, 2]),
-                        arrowprops=dict(arrowstyle="-|>", color=theme["ink"], linewidth=1.3, shrinkA=6, shrinkB=7),
-                        zorder=2, gid=f"{key}-arrow-{i}")
+            arrow = ax.annotate("", xy=(after[i, 1], after[i, 2]), xytext=(before[i, 1], before[i, 2]),
+                                arrowprops=dict(arrowstyle="-|>", color=theme["ink"], linewidth=1.3, shrinkA=6,
+                                                shrinkB=7), zorder=2)
+            arrow.arrow_patch.set_gid(f"{key}-arrow-{i}")
             arrows += 1
         ax.scatter([after[i, 1]], [after[i, 2]], s=110, c=[_safe(new[i])], edgecolors=theme["ink"],
                    linewidths=0.9, zorder=4, gid=f"{key}-point-{i}")
