@@ -18,6 +18,7 @@ vision, the distance of every pair, and for ramps the lightness of every step.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from html import escape
 
 import numpy as np
@@ -161,6 +162,7 @@ def _css_hex(hex_: str) -> str:
     return hex_.lower() if _HEX.fullmatch(hex_ or "") else "transparent"
 
 
+@lru_cache(maxsize=4096)
 def text_color(hex_: str) -> str:
     """Black or white, whichever has the higher WCAG contrast on ``hex_``."""
     rgb = np.array([int(hex_[i:i + 2], 16) for i in (1, 3, 5)], dtype=float)

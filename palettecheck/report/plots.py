@@ -206,7 +206,7 @@ def matrix(result, theme: dict, key: str = "matrix") -> Drawn:
     for i, h in enumerate(hexes):
         _swatch(ax, i, -1, 0.9, h, str(i + 1), f"{key}-swatch-col-{i}", fs)
         _swatch(ax, -1, i, 0.9, h, str(i + 1), f"{key}-swatch-row-{i}", fs)
-    marked = []
+    marked, plain = [], []
     for i in range(n):
         for j in range(i):
             a, b = j, i
@@ -223,19 +223,24 @@ def matrix(result, theme: dict, key: str = "matrix") -> Drawn:
                 marked.append((a, b, sev, vision))
                 ink, weight = theme["ink"], "bold"
             elif pair in checked:
-                ax.add_patch(Rectangle((j - 0.45, i - 0.45), 0.9, 0.9, facecolor="none", edgecolor=theme["grid"],
-                                       linewidth=0.8))
+                plain.append(Rectangle((j - 0.45, i - 0.45), 0.9, 0.9))
                 ink, weight = theme["ink"], "normal"
             else:
                 ink, weight = theme["muted"], "normal"
-            ax.text(j, i - 0.08, f"{value:.1f}" if value < 100 else f"{value:.0f}", ha="center", va="center",
-                    fontsize=fs, color=ink, fontweight=weight)
-            ax.text(j, i + 0.27, _short(vision), ha="center", va="center", fontsize=fs - 1.5, color=theme["muted"])
+            ax.text(j, i - 0.08 if pair in status else i, f"{value:.1f}" if value < 100 else f"{value:.0f}",
+                    ha="center", va="center", fontsize=fs, color=ink, fontweight=weight)
+            if pair in status:
+                ax.text(j, i + 0.27, _short(vision), ha="center", va="center", fontsize=fs - 1.5,
+                        color=theme["muted"])
+    if plain:
+        from matplotlib.collections import PatchCollection
+
+        ax.add_collection(PatchCollection(plain, facecolor="none", edgecolor=theme["grid"], linewidth=0.8))
     limits = f"error below {s.error_delta_e:.1f}" + (f", warning below {s.warn_delta_e:.1f}"
                                                       if s.kind == "categorical" else "")
     scope = "every pair" if s.kind == "categorical" else "neighbouring steps only (faint: not compared)"
     _caption(fig, f"Smallest ΔE' of each pair over {', '.join(visions)}; checked: {scope}.\n"
-                  f"Solid box: error, dashed: warning ({limits}). Small text: where it is smallest.", theme)
+                  f"Solid box: error, dashed: warning ({limits}); small text: the vision where it is smallest.", theme)
     errors = sum(m[2] == ERROR for m in marked)
     alt = (f"Matrix of the smallest ΔE' between each pair of the {n} colours; "
            f"{errors} pair(s) below the error threshold, {len(marked) - errors} below the warning threshold.")
@@ -287,19 +292,23 @@ def plane(result, vision: str, theme: dict, limit: float | None = None, key: str
                 joined.append((i, j, sev))
     hue = np.degrees(np.arctan2(jab[:, 2], jab[:, 1])) % 360
     chroma = np.hypot(jab[:, 1], jab[:, 2])
+    faces = [_safe(h) for h in hexes]
+    if n:
+        top.scatter(jab[:, 1], jab[:, 2], s=120, c=faces, edgecolors=theme["ink"], linewidths=0.9, zorder=3,
+                    gid=f"{key}-points")
+        low.scatter(hue, jab[:, 0], s=70, c=faces, edgecolors=theme["ink"], linewidths=0.8, zorder=3,
+                    gid=f"{key}-hues")
     for i in range(n):
-        face = _safe(hexes[i])
-        top.scatter([jab[i, 1]], [jab[i, 2]], s=120, c=[face], edgecolors=theme["ink"], linewidths=0.9,
-                    zorder=3, gid=f"{key}-point-{i}")
-        top.annotate(str(i + 1), (jab[i, 1], jab[i, 2]), xytext=(7, 5), textcoords="offset points",
-                     fontsize=FONT - 1, color=theme["ink"], zorder=4)
-        low.scatter([hue[i]], [jab[i, 0]], s=70, c=[face], edgecolors=theme["ink"], linewidths=0.8, zorder=3,
-                    gid=f"{key}-hue-{i}")
-        low.annotate(str(i + 1), (hue[i], jab[i, 0]), xytext=(5, 3), textcoords="offset points",
-                     fontsize=FONT - 2, color=theme["ink"])
+        top.text(jab[i, 1] + limit * 0.05, jab[i, 2] + limit * 0.04, str(i + 1), fontsize=FONT - 1,
+                 color=theme["ink"], zorder=4)
+        low.text(hue[i] + 7, jab[i, 0] + 3, str(i + 1), fontsize=FONT - 2, color=theme["ink"])
     low.set_xlim(0, 360)
     low.set_xticks([0, 90, 180, 270, 360])
     low.set_ylim(0, 100)
+    low.set_yticks([0, 50, 100])
+    ticks = np.linspace(-limit, limit, 5)
+    top.set_xticks(ticks)
+    top.set_yticks(ticks)
     low.set_xlabel("hue angle h' (degrees)")
     low.set_ylabel("lightness J'")
     if n and float(chroma.max()) < 2:
@@ -333,9 +342,8 @@ def ramp_profile(result, theme: dict, key: str = "lightness") -> Drawn:
     for k, v in enumerate(visions):
         J = p.ucs[v][:, 0]
         ax.plot(x, J, color=theme["muted"], linestyle=_DASHES[k % len(_DASHES)], linewidth=1.1, zorder=2)
-        for i, h in enumerate(seen_hexes(p, v)):
-            ax.scatter([x[i]], [J[i]], s=46, marker=_MARKERS[k % len(_MARKERS)], c=[_safe(h)],
-                       edgecolors=theme["ink"], linewidths=0.7, zorder=3, gid=f"{key}-point-{v}-{i}")
+        ax.scatter(x, J, s=46, marker=_MARKERS[k % len(_MARKERS)], c=[_safe(h) for h in seen_hexes(p, v)],
+                   edgecolors=theme["ink"], linewidths=0.7, zorder=3, gid=f"{key}-points-{v}")
         ax.annotate(_short(v) if len(visions) > 1 else v, (x[-1], J[-1]), xytext=(8, 0),
                     textcoords="offset points", va="center", fontsize=FONT - 1, color=theme["ink"],
                     annotation_clip=False)
