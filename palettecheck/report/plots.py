@@ -344,9 +344,6 @@ def ramp_profile(result, theme: dict, key: str = "lightness") -> Drawn:
         ax.plot(x, J, color=theme["muted"], linestyle=_DASHES[k % len(_DASHES)], linewidth=1.1, zorder=2)
         ax.scatter(x, J, s=46, marker=_MARKERS[k % len(_MARKERS)], c=[_safe(h) for h in seen_hexes(p, v)],
                    edgecolors=theme["ink"], linewidths=0.7, zorder=3, gid=f"{key}-points-{v}")
-        ax.annotate(_short(v) if len(visions) > 1 else v, (x[-1], J[-1]), xytext=(8, 0),
-                    textcoords="offset points", va="center", fontsize=FONT - 1, color=theme["ink"],
-                    annotation_clip=False)
         if v in s.visions:
             for i in range(n - 1):
                 if float(p.delta[v][i, i + 1]) < s.error_delta_e:
@@ -355,6 +352,14 @@ def ramp_profile(result, theme: dict, key: str = "lightness") -> Drawn:
                                zorder=4, gid=f"{key}-fail-{v}-{i}")
                     ax.scatter([xm], [ym], s=40, marker="x", c=[theme["bad"]], linewidths=1.6, zorder=4)
                     failing.append((i, i + 1, v))
+    # name each line at its end, spread out where the ends lie together
+    ends = sorted((float(p.ucs[v][-1, 0]), k, v) for k, v in enumerate(visions))
+    placed = []
+    for y, k, v in ends:
+        y = max(y, placed[-1] + 6.5) if placed else y
+        placed.append(y)
+        ax.text(n + 0.6, y, _short(v) if len(visions) > 1 else v, va="center",
+                fontsize=FONT - 1, color=theme["ink"], clip_on=False)
     ax.set_xlim(0.5, n + 0.5)
     ax.set_ylim(0, 100)
     ax.set_xticks(x)
