@@ -82,6 +82,10 @@ class InlineFigures:
     theme = SENTINELS
     inline = True
 
+    def figures(self, makers, caption: str = "") -> list[str]:
+        """Each ``maker()`` draws a :class:`Drawn`; their markup, in order."""
+        return [self.figure(m(), caption) for m in makers]
+
     def figure(self, drawn: Drawn, caption: str = "") -> str:
         cls = "fig wide" if drawn.wide else "fig"
         cap = f"<figcaption>{escape(caption)}</figcaption>" if caption else ""
@@ -101,11 +105,14 @@ class FileFigures:
     theme = LIGHT
     inline = False
 
+    def figures(self, makers) -> list:
+        """Each ``maker()`` draws a :class:`Drawn`; their links, in order (None when disabled)."""
+        return [self.figure(m()) if self.enabled else None for m in makers]
+
     def __init__(self, folder=None, stem: str = "report", inputs=()):
         self.folder = Path(folder) if folder is not None else None
         self.stem = stem
         self.inputs = tuple(inputs)
-        self.written: list[Path] = []
 
     @property
     def enabled(self) -> bool:
@@ -121,7 +128,6 @@ class FileFigures:
                 f.write(data)
 
         write_atomic_with(path, save, ".png")
-        self.written.append(path)
         return name
 
     def figure(self, drawn: Drawn, caption: str = "") -> str | None:

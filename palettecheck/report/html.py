@@ -247,20 +247,24 @@ def figures_section(result, figures, h: str) -> list[str]:
     from . import plots
 
     p, theme = result.perceived, figures.theme
+    limit = plots.plane_limits(p)
+    ramp = result.settings.kind in RAMP_KINDS
+    makers = [lambda: plots.matrix(result, theme)]
+    makers += [lambda: plots.ramp_profile(result, theme)] if ramp else []
+    makers += [lambda v=v: plots.plane(result, v, theme, limit) for v in plots.visions_of(p)]
+    drawn = figures.figures(makers)
+    matrix, drawn = drawn[0], drawn[1:]
     out = [f"<{h}>Distance between every pair</{h}>",
            '<p class="muted">ΔE\' in CAM02-UCS, the smallest over the visions compared. Boxed cells are '
-           "pairs that readers with that vision may not tell apart.</p>",
-           figures.figure(plots.matrix(result, theme))]
-    if result.settings.kind in RAMP_KINDS:
-        out += [f"<{h}>Lightness along the ramp</{h}>", figures.figure(plots.ramp_profile(result, theme))]
-    limit = plots.plane_limits(p)
+           "pairs that readers with that vision may not tell apart.</p>", matrix]
+    if ramp:
+        out += [f"<{h}>Lightness along the ramp</{h}>", drawn[0]]
+        drawn = drawn[1:]
     out += [f"<{h}>Where the colours sit, per vision</{h}>",
             '<p class="muted">Each panel is one vision: the colours in the a\'b\' plane (hue and '
             "colourfulness) and as lightness against hue. Colours that move together across the "
             "panels are the ones a reader with that vision confuses; lines join pairs that are too "
-            "close (solid) or close (dashed).</p>", '<div class="fig-grid">']
-    out += [figures.figure(plots.plane(result, v, theme, limit)) for v in plots.visions_of(p)]
-    out.append("</div>")
+            "close (solid) or close (dashed).</p>", '<div class="fig-grid">', *drawn, "</div>"]
     return out
 
 
@@ -497,8 +501,8 @@ def render_fix_html(repair, figures=None) -> str:
                  "<h2>The moves in the a'b' plane</h2>",
                  '<p class="muted">Each panel is one vision compared by the check: a ring where a colour was, '
                  "an arrow to where it is now.</p>", '<div class="fig-grid">']
-        body += [figures.figure(plots.moves(repair, v, figures.theme)) for v in s.visions
-                 if v in a.perceived.ucs and v in b.perceived.ucs]
+        body += figures.figures([lambda v=v: plots.moves(repair, v, figures.theme) for v in s.visions
+                                 if v in a.perceived.ucs and v in b.perceived.ucs])
         body.append("</div>")
     if repair.explanation:
         body += ["<h2>Why it cannot fully pass</h2>", "<ul>"] + [f"<li>{_e(x)}</li>" for x in repair.explanation]

@@ -117,22 +117,26 @@ def figures_section(result, figures, h: str) -> list[str]:
     s, p, theme = result.settings, result.perceived, figures.theme
     rows = [(vision_label(v, s.severity), plots.seen_hexes(p, v) if v != "normal" else result.palette.hexes)
             for v in plots.visions_of(p)]
-    out = ["", f"{h} The palette as each reader sees it", ""]
-    out += _figure_line(figures, plots.strips(rows, theme, "views", s.backgrounds[0]))
+    makers = [lambda: plots.strips(rows, theme, "views", s.backgrounds[0])]
+    if len(result.palette) >= 2:
+        limit = plots.plane_limits(p)
+        makers.append(lambda: plots.matrix(result, theme))
+        makers += [lambda: plots.ramp_profile(result, theme)] if s.kind in RAMP_KINDS else []
+        makers += [lambda v=v: plots.plane(result, v, theme, limit) for v in plots.visions_of(p)]
+    lines = [[line, ""] if line else [] for line in figures.figures(makers)]
+    out = ["", f"{h} The palette as each reader sees it", ""] + lines.pop(0)
     if len(result.palette) < 2:
         return out
     out += [f"{h} Distance between every pair", "",
             "ΔE' in CAM02-UCS, the smallest over the visions compared; boxed cells are pairs that readers "
-            "with that vision may not tell apart.", ""]
-    out += _figure_line(figures, plots.matrix(result, theme))
+            "with that vision may not tell apart.", ""] + lines.pop(0)
     if s.kind in RAMP_KINDS:
-        out += [f"{h} Lightness along the ramp", ""] + _figure_line(figures, plots.ramp_profile(result, theme))
+        out += [f"{h} Lightness along the ramp", ""] + lines.pop(0)
     out += [f"{h} Where the colours sit, per vision", "",
             "Each figure is one vision: the colours in the a'b' plane and as lightness against hue; lines "
             "join pairs that are too close (solid) or close (dashed).", ""]
-    limit = plots.plane_limits(p)
-    for v in plots.visions_of(p):
-        out += _figure_line(figures, plots.plane(result, v, theme, limit))
+    for line in lines:
+        out += line
     while out and not out[-1]:
         out.pop()
     return out

@@ -28,8 +28,8 @@ from .plots import worst_vision
 
 __all__ = ["Thumbnail", "thumbnails", "thumbnail", "recolour_svg", "MAX_SIZE", "MAX_SVG_BYTES"]
 
-#: Largest thumbnail, pixels (width, height): sharp at about 1.7 times the 300 px it is shown at.
-MAX_SIZE = (520, 360)
+#: Largest thumbnail, pixels (width, height): about 1.5 pixels per CSS pixel at the 300 px it is shown at.
+MAX_SIZE = (460, 320)
 #: SVG charts larger than this are not embedded (the page would grow by as much, twice).
 MAX_SVG_BYTES = 2_000_000
 
