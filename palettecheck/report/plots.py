@@ -301,7 +301,7 @@ def plane(result, vision: str, theme: dict, limit: float | None = None, key: str
     for i in range(n):
         top.text(jab[i, 1] + limit * 0.05, jab[i, 2] + limit * 0.04, str(i + 1), fontsize=FONT - 1,
                  color=theme["ink"], zorder=4)
-        low.text(hue[i] + 7, jab[i, 0] + 3, str(i + 1), fontsize=FONT - 2, color=theme["ink"])
+
     low.set_xlim(0, 360)
     low.set_xticks([0, 90, 180, 270, 360])
     low.set_ylim(0, 100)
