@@ -98,6 +98,7 @@ table.summary td:nth-child(n+2):nth-child(-n+5) { white-space: nowrap; overflow-
 .cell { flex: 1 0 28px; min-width: 28px; height: 46px; display: flex; align-items: center;
   justify-content: center; font-weight: 600; font-size: 0.9em; }
 .cell.moved { box-shadow: inset 0 -5px 0 0 var(--fg); }
+.pair .when { display: block; color: var(--muted); font-size: 0.8em; margin: 2px 0 1px; }
 ul.findings { list-style: none; padding: 0; margin: 0; }
 ul.findings li { padding: 5px 0; border-bottom: 1px solid var(--line); }
 ul.findings .chip { margin-right: 3px; }
@@ -486,14 +487,16 @@ def render_fix_html(repair, figures=None) -> str:
     moved = {m.index for m in repair.moves}
     bg = np.array([parse_color(s.backgrounds[0])[0]], dtype=float)
     body += ["<h2>Before and after, as each reader sees it</h2>",
-             '<p class="muted">For each vision, the palette before (upper strip) and after the repair '
-             "(lower strip); a bar under a swatch marks a colour that moved. Locked colours never move.</p>",
+             '<p class="muted">For each vision, the palette before and after the repair; a bar under a '
+             "swatch marks a colour that moved. Locked colours never move.</p>",
              '<div class="views">']
     labels = [str(i + 1) for i in range(len(a.palette))]
     for vision in _visions(a):
         page = _seen(bg, vision, s)[0]
         body += [f'<div class="view-name">{_e(vision_label(vision, s.severity))}</div>',
-                 '<div>' + _strip(_seen(b.palette.rgb255, vision, s), labels, page, moved=moved)
+                 '<div class="pair"><span class="when">before</span>'
+                 + _strip(_seen(b.palette.rgb255, vision, s), labels, page, moved=moved)
+                 + '<span class="when">after</span>'
                  + _strip(_seen(a.palette.rgb255, vision, s), labels, page, moved=moved) + "</div>"]
     body.append("</div>")
     if repair.moves:
