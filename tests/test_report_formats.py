@@ -384,3 +384,24 @@ def test_condition_names_follow_the_severity(vision, severity, label):
     from palettecheck.report.facts import vision_label
 
     assert vision_label(vision, severity) == label
+
+
+def test_simulate_outlines_merging_regions(invoke, tmp_path):
+    """With --outline the sheet differs from the plain one exactly where a merging
+    pair is drawn: the red and green bands under deuteranopia."""
+    from PIL import Image
+
+    bands = np.array([[184, 67, 47], [77, 138, 52], [29, 59, 110], [255, 255, 255]], dtype=np.uint8)
+    arr = np.repeat(np.repeat(bands[:, None, :], 120, axis=1), 40, axis=0)  # (160, 120, 3)
+    chart = tmp_path / "bands.png"
+    Image.fromarray(arr, "RGB").save(chart)
+    plain, outlined = tmp_path / "plain", tmp_path / "outlined"
+    assert invoke("simulate", str(chart), "--output", str(plain)).exit_code == 0
+    res = invoke("simulate", str(chart), "--output", str(outlined), "--outline", "--severity", "1")
+    assert res.exit_code == 0, res.stderr
+    with Image.open(plain / "bands-sheet.png") as a, Image.open(outlined / "bands-sheet.png") as b:
+        assert a.size[0] == b.size[0] and np.asarray(a.convert("RGB")).shape != () and a.tobytes() != b.tobytes()
+    from palettecheck.report.figures import merge_mask
+
+    mask, step = merge_mask(arr, ["#b8432f", "#4d8a34"])
+    assert step == 1 and mask[:80].all() and not mask[80:].any()  # red and green bands; not blue or white
