@@ -151,6 +151,16 @@ def emit(text: str, output: str | None, inputs=(), default_name: str = "report")
     click.echo(f"wrote {one_line(path)}", err=True)
 
 
+def _figures(fmt: str, output: str | None, default_name: str, inputs=()):
+    """A Markdown report's figure files, written beside the report (None for other formats)."""
+    if fmt != "markdown":
+        return None
+    from .report import figure_files
+    from .report.write import output_path
+
+    return figure_files(fmt, output_path(output, default_name) if output else None, inputs)
+
+
 def _stem(sources) -> str:
     return os.path.splitext(os.path.basename(sources[0]))[0] if len(sources) == 1 else "palette"
 
@@ -207,8 +217,9 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
         from .repair import suggestions
 
         result.suggestions = suggestions(result)
-    emit(render(result, fmt, color=_use_color() and output is None), output, sources,
-         f"{_stem(sources)}-check.{REPORT_EXTENSIONS[fmt]}")
+    name = f"{_stem(sources)}-check.{REPORT_EXTENSIONS[fmt]}"
+    emit(render(result, fmt, color=_use_color() and output is None, figures=_figures(fmt, output, name, sources)),
+         output, sources, name)
     sys.exit(0 if result.passed else 1)
 
 
@@ -290,8 +301,9 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
         click.echo(f"palettecheck: {one_line(message)}", err=True)
     if not report.images and not report.errors:
         raise click.UsageError(f"no chart images found in {', '.join(paths)}")
-    emit(render_scan(report, fmt, color=_use_color() and output is None), output, read,
-         f"scan.{REPORT_EXTENSIONS[fmt]}")
+    name = f"scan.{REPORT_EXTENSIONS[fmt]}"
+    emit(render_scan(report, fmt, color=_use_color() and output is None, figures=_figures(fmt, output, name, paths),
+                     jobs=jobs or 2), output, read, name)
     sys.exit(report.exit_code)
 
 
@@ -432,8 +444,9 @@ def _progress_bar():
               help="Categorical: the same seed gives the same palette (0 or more).")
 @common_options(formats=GENERATE_FORMATS,
                 format_help="Output: text (palette and check), json, hex, css (custom properties), matplotlib "
-                            "(a snippet), tokens (W3C design tokens), scss, less, mplstyle (a matplotlib style "
-                            "sheet), vega-lite (a config), plotly (a layout template), r (a named vector).")
+                            "(a snippet), markdown or html (a page with the palette under every vision and its "
+                            "figures), tokens (W3C design tokens), scss, less, mplstyle (a matplotlib style sheet), "
+                            "vega-lite (a config), plotly (a layout template), r (a named vector).")
 def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_contrast, seed, kind, fmt, output,
                  **options):
     """Make a palette that passes the checks, and show how it scores. Exit 1 when the
@@ -456,8 +469,9 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
     else:
         request.update(colors=bases)
     gen = generate_palette(palette_kind, count, **request)
-    emit(render_generated(gen, fmt, color=_use_color() and output is None), output, (),
-         f"{palette_kind}-palette.{GENERATE_EXTENSIONS[fmt]}")
+    name = f"{palette_kind}-palette.{GENERATE_EXTENSIONS[fmt]}"
+    emit(render_generated(gen, fmt, color=_use_color() and output is None, figures=_figures(fmt, output, name)),
+         output, (), name)
     sys.exit(0 if gen.passed else 1)
 
 
@@ -465,7 +479,9 @@ def generate_cmd(palette_kind, count, bases, keep, lightness, min_chroma, min_co
 @click.argument("sources", nargs=-1, required=True)
 @click.option("--keep", multiple=True, metavar="COLOUR", type=COLOR,
               help="Lock this palette colour: it never moves (repeatable; JSON palettes may lock too).")
-@common_options
+@common_options(formats=REPORT_FORMATS,
+                format_help="Output: text (the repaired palette in its own format; moves on stderr), json "
+                            "(everything), markdown or html (a page: before and after, the moves drawn).")
 def fix_cmd(sources, keep, fmt, output, **options):
     """Suggest the smallest colour changes that make a palette pass. The repaired
     palette is written in the format it came in (to --output, or stdout) and the
@@ -507,6 +523,9 @@ def fix_cmd(sources, keep, fmt, output, **options):
     text, name = write_back(sources, palette, result.palette.hexes)
     if fmt == "json":
         text, name = render_repair(result, "json"), f"{os.path.splitext(name)[0]}.json"
+    elif fmt in ("markdown", "html"):
+        name = f"{_stem(sources)}-fix.{REPORT_EXTENSIONS[fmt]}"
+        text = render_repair(result, fmt, figures=_figures(fmt, output, name, sources))
     else:
         click.echo(render_repair(result, "text", color=_use_color()), err=True, nl=False)
     if output is None and sys.stdout.isatty():
@@ -572,10 +591,13 @@ def _for_terminal(text: str) -> str:
               help="CVD severity, 0-1 (default 1: dichromacy).")
 @click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
               help="CVD simulation model (default machado).")
-def simulate_cmd(image, output, severity, cvd_model):
+@click.option("--outline", is_flag=True,
+              help="On the sheet, outline the regions drawn with colours that merge under each vision.")
+def simulate_cmd(image, output, severity, cvd_model, outline):
     """Show a chart image as each simulated vision sees it.
 
-    Writes one PNG per vision plus a sheet of all of them side by side."""
+    Writes one PNG per vision plus a sheet of all of them side by side, each panel
+    named after the condition it simulates at its severity."""
     _about((image,))
     from pathlib import Path
 
@@ -583,12 +605,22 @@ def simulate_cmd(image, output, severity, cvd_model):
     from .report.figures import simulate_image
 
     settings = _settings(severity=severity, cvd_model=cvd_model)
+    merges = None
+    if outline:
+        from .judge import check_sources
+
+        result = check_sources([image], settings)
+        merges = {v: [] for v in result.settings.visions}
+        for pair in result.pairs():
+            for vision, d in pair["delta_e"].items():
+                if d < result.settings.error_delta_e:
+                    merges.setdefault(vision, []).append((result.palette[pair["a"]].hex, result.palette[pair["b"]].hex))
     out = Path(output)
     try:
         out.mkdir(parents=True, exist_ok=True)
     except OSError as e:
         raise OutputError(f"{out}: cannot make the folder ({e.strerror or e})") from None
-    for path in simulate_image(image, out, settings.severity, settings.cvd_model):
+    for path in simulate_image(image, out, settings.severity, settings.cvd_model, merges):
         click.echo(one_line(path))
 
 

@@ -62,10 +62,10 @@ REPORT_FORMATS = tuple(REPORT_EXTENSIONS)
 SCAN_EXTENSIONS = {**REPORT_EXTENSIONS, "jsonl": "jsonl"}
 SCAN_FORMATS = tuple(SCAN_EXTENSIONS)
 #: Output formats of ``generate``, with the file suffix of each.
-#: The design-system and plotting-library formats name each colour too.
+#: The documents, and the design-system and plotting-library formats (each colour named).
 GENERATE_EXTENSIONS = {"text": "txt", "json": "json", "hex": "txt", "css": "css", "matplotlib": "py",
-                       "tokens": "tokens", "scss": "scss", "less": "less", "mplstyle": "mplstyle",
-                       "vega-lite": "vl.json", "plotly": "plotly.json", "r": "R"}
+                       "markdown": "md", "html": "html", "tokens": "tokens", "scss": "scss", "less": "less",
+                       "mplstyle": "mplstyle", "vega-lite": "vl.json", "plotly": "plotly.json", "r": "R"}
 GENERATE_FORMATS = tuple(GENERATE_EXTENSIONS)
 
 #: Chart image files that ``scan`` reads: raster formats (Pillow) and SVG.

@@ -9,14 +9,28 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..terms import ERROR, WARNING
+from ..terms import CVD_VISIONS, ERROR, VISION_LABELS, WARNING
 
-__all__ = ["CAUTION", "ColorFacts", "color_facts", "ratio_text", "main_problem", "colors_summary"]
+__all__ = ["CAUTION", "vision_label", "ColorFacts", "color_facts", "ratio_text", "main_problem", "colors_summary"]
 
 #: Joins every report and every JSON output: these checks are not a certificate.
 CAUTION = ("Passing these checks does not by itself certify compliance with any "
            "accessibility law or standard; follow the standard that applies to you "
            "(for example WCAG 2.2) and ask an accessibility specialist.")
+
+
+#: The partial (anomalous) form of each dichromacy, the trade's name for a severity below 1.
+_ANOMALY = {"protanopia": "protanomaly", "deuteranopia": "deuteranomaly", "tritanopia": "tritanomaly"}
+
+
+def vision_label(vision: str, severity: float = 1.0, model: str | None = None) -> str:
+    """The condition a view simulates, at its severity, in the trade's terms:
+    'deuteranopia' at severity 1, 'deuteranomaly, severity 0.6' below it. Normal
+    vision and the grey view have no severity. (``model`` is accepted for callers
+    that pass it; the condition's name does not depend on it.)"""
+    if vision in CVD_VISIONS and severity < 1:
+        return f"{_ANOMALY[vision]}, severity {severity:g}"
+    return VISION_LABELS.get(vision, vision)
 
 
 def ratio_text(ratio: float) -> str:

@@ -1,5 +1,6 @@
 """A generated palette as text, JSON, a hex list, CSS custom properties, a matplotlib
-snippet, or a design-system / plotting-library file (:mod:`.palette_formats`)."""
+snippet, a Markdown or HTML page, or a design-system / plotting-library file
+(:mod:`.palette_formats`)."""
 
 from __future__ import annotations
 
@@ -25,11 +26,20 @@ def _summary(gen) -> str:
     return f"score {c.score.value}/100, {verdict} check ({where})"
 
 
-def render_generated(gen, fmt: str, color: bool = False) -> str:
+def render_generated(gen, fmt: str, color: bool = False, figures=None) -> str:
     """A :class:`palettecheck.generate.result.Generated` palette as ``text`` (palette, then the check report), ``json`` (DESIGN.md:
     ``{kind, colors, check, ...}``), ``hex`` (one per line, readable by ``check``),
-    ``css`` (custom properties) or ``matplotlib`` (a snippet to paste)."""
+    ``css`` (custom properties), ``matplotlib`` (a snippet to paste), or a document:
+    ``markdown`` (figures as PNG files through ``figures``) or ``html`` (one page)."""
     summary = _summary(gen)
+    if fmt == "markdown":
+        from .markdown import render_generated_markdown
+
+        return render_generated_markdown(gen, summary, figures)
+    if fmt == "html":
+        from .html import render_generated_html
+
+        return render_generated_html(gen, summary)
     why = [f"  {line}" for line in gen.explanation]
     if fmt in PALETTE_FORMATS:
         return render_palette(fmt, gen.kind, gen.colors, color_names(gen.colors), summary)

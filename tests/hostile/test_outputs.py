@@ -133,7 +133,11 @@ def test_output_to_a_new_folder_makes_it(run, tmp_path, palette, charts, args, d
     assert (tmp_path / "new" / "deeper" / default).is_file()
     again = run(*args, "-o", "new/deeper")  # an existing folder, no slash
     assert again.exit_code in (0, 1) and (tmp_path / "new" / "deeper" / default).is_file()
-    assert sorted(p.name for p in (tmp_path / "new" / "deeper").iterdir()) == [default]
+    written = sorted(p.name for p in (tmp_path / "new" / "deeper").iterdir())
+    stem = default.rsplit(".", 1)[0]
+    # the report, and for Markdown its figure files beside it (named after the report)
+    assert default in written and all(p == default or (p.startswith(stem + "-") and p.endswith(".png"))
+                                      for p in written)
 
 
 def _special(tmp_path, kind):
