@@ -28,7 +28,7 @@ from .color import opaque_hex
 from .errors import ColorError, SettingsError
 from .terms import CVD_MODELS, DEFAULT_VISIONS, KINDS, MARKS, SURROUNDS, VISIONS
 
-__all__ = ["Settings", "Viewing", "SRGB_VIEWING", "MARK_ANGLE", "noticeable_difference", "mark_threshold",
+__all__ = ["Settings", "Limits", "LIMITS", "Viewing", "SRGB_VIEWING", "MARK_ANGLE", "noticeable_difference", "mark_threshold",
            "load_settings", "settings_from", "parse_band", "SettingsError"]
 
 
@@ -256,3 +256,32 @@ def parse_band(text: str) -> tuple[float, float]:
     if len(band) != 2:
         raise SettingsError(f"{text!r}: expected MIN:MAX, two numbers (J', 0-100)")
     return band
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Hard limits on input, checked before the work they bound (each is a rule of
+    thumb sized well above real palettes and charts: common practice, no source)."""
+
+    #: palette files (.txt, .json, .tokens, .css): a palette is a few kB
+    palette_file_bytes: int = 4 * 1024 * 1024
+    #: raster chart images: a 64-megapixel PNG compresses to well under this
+    image_file_bytes: int = 256 * 1024 * 1024
+    #: pyproject.toml read for [tool.palettecheck]
+    config_file_bytes: int = 4 * 1024 * 1024
+    #: nesting of JSON / design-token / TOML structures (tokens nest 3-6 deep)
+    nesting_depth: int = 64
+    #: digits of an integer in a palette file (Python refuses past 4300)
+    integer_digits: int = 100
+    #: pixels an image header may announce (an 8000 x 8000 chart; 4K is 8.3 million)
+    image_pixels: int = 64_000_000
+    #: folders below a folder given to scan
+    folder_depth: int = 64
+    #: simulate: longest side of each view drawn on the side-by-side sheet
+    sheet_view_pixels: int = 1200
+    #: seconds one simulate may take before it stops with an error
+    simulate_seconds: float = 10.0
+
+
+#: The limits in force.
+LIMITS = Limits()
