@@ -75,3 +75,52 @@ def test_errors_name_the_file(tmp_path, setup, words):
     with pytest.raises(ReadError) as e:
         read_source(str(path))
     assert str(path) in str(e.value) and words in str(e.value)
+
+
+# --- CSS: every colour syntax, var(), notes (issue 9) ---------------------------------
+
+
+def test_css_reads_every_syntax_and_resolves_var(tmp_path):
+    f = tmp_path / "p.css"
+    f.write_text(":root {\n  --a: #1f6f8b;\n  --b: var(--a);\n  --c: rgb(var(--r) 20 30);\n  --r: 10;\n"
+                 "  --d: oklch(70% 0.1 200);\n  --e: lab(50 20 30);\n  --f: lch(60% 40 120 / 50%);\n"
+                 "  --g: color(display-p3 1 0 0) !important;\n  --h: hsl(120 50% 50% / 0.5);\n"
+                 "  --i: var(--missing, #d9a23b);\n  --gap: 4px;\n  --space: var(--gap);\n}\n")
+    p = read_source(str(f))
+    assert [s.name for s in p] == ["a", "c", "d", "e", "f", "g", "h", "i"]
+    assert p.hexes[0] == "#1f6f8b" and p.hexes[1] == "#0a141e" and p.hexes[7] == "#d9a23b"
+    notes = " | ".join(p.notes)
+    assert "--b is var(--a)" in notes and "gamut-mapped" in notes and "--space" not in notes
+
+
+def test_css_notes_colours_that_fail(tmp_path):
+    f = tmp_path / "p.css"
+    f.write_text(":root { --a: #123456; --bad: lab(50 20); --loop: var(--loop); --none: var(--nowhere);"
+                 " --font: Helvetica; }")
+    p = read_source(str(f))
+    assert p.hexes == ["#123456"]
+    notes = " | ".join(p.notes)
+    assert "--bad" in notes and "--loop" in notes and "--nowhere" in notes and "--font" not in notes
+
+
+def test_css_comments_hide_properties(tmp_path):
+    f = tmp_path / "p.css"
+    f.write_text(":root { --a: #123456; /* --b: #ff0000; */ --c: #00ff00; /* --d: #0000ff; unterminated")
+    assert read_source(str(f)).hexes == ["#123456", "#00ff00"]
+
+
+def test_css_only_failures_is_an_error(tmp_path):
+    f = tmp_path / "p.css"
+    f.write_text(":root { --a: oklch(1 2); }")
+    with pytest.raises(ReadError, match="--a"):
+        read_source(str(f))
+
+
+def test_css_rewrite_follows_the_reader(tmp_path):
+    from palettecheck.read.rewrite import rewrite_source
+
+    f = tmp_path / "p.css"
+    f.write_text("/* --x: #000000; */ :root { --a: #123456 !important; --b: var(--a); --c: oklch(70% 0.1 200); }")
+    old = read_source(str(f))
+    text = rewrite_source(f, old, old.with_hexes(["#111111", "#222222"]))
+    assert text == "/* --x: #000000; */ :root { --a: #111111 !important; --b: var(--a); --c: #222222; }"
