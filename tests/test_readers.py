@@ -124,3 +124,50 @@ def test_css_rewrite_follows_the_reader(tmp_path):
     old = read_source(str(f))
     text = rewrite_source(f, old, old.with_hexes(["#111111", "#222222"]))
     assert text == "/* --x: #000000; */ :root { --a: #111111 !important; --b: var(--a); --c: #222222; }"
+
+
+# --- JSON and design tokens: shapes and limits (issue 9) ------------------------------
+
+
+@pytest.mark.parametrize(
+    ("name", "text", "message"),
+    [
+        ("deep.json", "[" * 5000 + "]" * 5000, "nested more than 64"),
+        ("deep.tokens", '{"a":' * 3000 + '"#fff"' + "}" * 3000, "nested more than 64"),
+        ("bigint.json", '[{"hex": "#fff", "n": ' + "9" * 5000 + "}]", "5000 digits"),
+        ("c2.tokens", '{"a": {"$type": "color", "$value": {"colorSpace": "srgb", "components": [1, 0]}}}',
+         "token a: components must be a list of 3"),
+        ("cs.tokens", '{"a": {"$type": "color", "$value": {"colorSpace": "srgb", "components": "red"}}}',
+         "not a string"),
+        ("vi.tokens", '{"a": {"$type": "color", "$value": 5}}', "token a: \\$value must be"),
+        ("ex.tokens", '{"a": {"$type": "color", "$value": "#fff", "$extensions": "x"}}', "\\$extensions must be"),
+        ("ni.json", '[{"hex": "#fff", "name": 5}]', "item 1: 'name' must be a string"),
+        ("nl.json", '[{"hex": "#fff", "name": ["a"]}]', "not a list"),
+        ("su.json", '{"a\\ud800": "#fff"}', "lone surrogate"),
+        ("lk.json", '[{"hex": "#fff", "locked": "false"}]', "item 1: 'locked' must be true or false"),
+        ("lt.tokens", '{"a": {"$type": "color", "$value": "#fff", "$extensions": {"palettecheck": {"locked": 0}}}}',
+         "token a: 'locked'"),
+    ],
+)
+def test_json_refuses_bad_shapes_in_one_line(tmp_path, name, text, message):
+    f = tmp_path / name
+    f.write_text(text)
+    with pytest.raises(ReadError, match=message) as info:
+        read_source(str(f))
+    assert str(f) in str(info.value) and "\n" not in str(info.value)
+
+
+def test_tokens_colour_objects_in_other_spaces(tmp_path):
+    """C: coloraide gives the same sRGB for the CSS colour the components stand for."""
+    from coloraide import Color
+
+    from palettecheck.color import to_hex
+
+    f = tmp_path / "t.tokens"
+    f.write_text(json.dumps({"a": {"$type": "color", "$value": {"colorSpace": "oklch",
+                                                               "components": [0.6, 0.1, 200]}},
+                             "b": {"$type": "color", "$value": {"colorSpace": "hsl",
+                                                               "components": [120, 50, 50], "alpha": 1}}}))
+    p = read_source(str(f))
+    assert p.hexes[0] == to_hex([255 * c for c in Color("oklch(0.6 0.1 200)").convert("srgb").coords()])
+    assert p.hexes[1] == "#40bf40"
