@@ -10,11 +10,10 @@ between is refused too. Each kind of input has a size limit
 from __future__ import annotations
 
 import os
-import re
 import stat
 from pathlib import Path
 
-from ..config import LIMITS
+from ..config import LIMITS, nesting_depth
 from ..errors import ReadError
 
 __all__ = ["MAX_FILE_BYTES", "shown", "check_regular", "file_size", "read_bytes", "read_text_file",
@@ -112,49 +111,3 @@ def read_text_file(path: Path, what: str = "a palette file", limit: int = LIMITS
     except UnicodeDecodeError as e:
         raise ReadError(f"{shown(path)}: not a UTF-8 text file (byte {e.start} cannot be read)") from None
 
-
-_JSON_STRUCT = re.compile(r'[\[\]{}"]')
-_TOML_STRUCT = re.compile(r"""[\[\]{}"'#]""")
-_JSON_STRING_REST = re.compile(r'(?:[^"\\]|\\.)*"', re.DOTALL)
-_TOML_ENDS = {'"': re.compile(r'(?:[^"\\\n]|\\.)*"', re.DOTALL), "'": re.compile(r"[^'\n]*'"),
-              '"""': re.compile(r'(?:[^"\\]|\\.|"(?!""))*"""', re.DOTALL), "'''": re.compile(r"(?:[^']|'(?!''))*'''")}
-
-
-def nesting_depth(text: str, limit: int, toml: bool = False) -> int:
-    """The deepest nesting of ``[ ]`` and ``{ }`` outside strings (and TOML comments),
-    found without recursion; stops and returns as soon as it passes ``limit``.
-
-    Run before ``json.loads`` / ``tomllib.loads``, which recurse once per level and
-    end in RecursionError on deep input. Unterminated strings stop the scan: the
-    parser reports them.
-    """
-    struct = _TOML_STRUCT if toml else _JSON_STRUCT
-    depth = deepest = pos = 0
-    while True:
-        m = struct.search(text, pos)
-        if m is None:
-            return deepest
-        c = m.group()
-        if c == "#":
-            nl = text.find("\n", m.end())
-            if nl < 0:
-                return deepest
-            pos = nl + 1
-            continue
-        if c in "\"'":
-            if toml:
-                triple = text.startswith(c * 3, m.start())
-                key = c * 3 if triple else c
-                end = _TOML_ENDS[key].match(text, m.start() + len(key))
-            else:
-                end = _JSON_STRING_REST.match(text, m.end())
-            if end is None:
-                return deepest
-            pos = end.end()
-            continue
-        depth += 1 if c in "[{" else -1
-        if depth > deepest:
-            deepest = depth
-            if deepest > limit:
-                return deepest
-        pos = m.end()
