@@ -171,3 +171,47 @@ def test_tokens_colour_objects_in_other_spaces(tmp_path):
     p = read_source(str(f))
     assert p.hexes[0] == to_hex([255 * c for c in Color("oklch(0.6 0.1 200)").convert("srgb").coords()])
     assert p.hexes[1] == "#40bf40"
+
+
+# --- text palettes: the grammar of palettecheck.read.text (issue 9) -------------------
+
+
+@pytest.mark.parametrize(
+    ("line", "entry"),
+    [
+        ("# a comment", None),
+        ("#", None),
+        ("// a comment", None),
+        ("//also", None),
+        ("#comment-no-space", None),
+        ("   ", None),
+        ("#1f6f8b Harbour teal", ("#1f6f8b", "Harbour teal", False)),
+        ("#1f6f8b Harbour teal   # trailing note", ("#1f6f8b", "Harbour teal", False)),
+        ("#1f6f8b Harbour teal // trailing note", ("#1f6f8b", "Harbour teal", False)),
+        ("#1f6f8b Blue #2", ("#1f6f8b", "Blue #2", False)),  # '#2' has no space after '#'
+        ("#1d3b6e Navy: the logo colour", ("#1d3b6e", "Navy: the logo colour", False)),
+        ("Revenue: #2a7f62", ("#2a7f62", "Revenue", False)),
+        ("Revenue:#2a7f62 !", ("#2a7f62", "Revenue", True)),
+        ("Team: North: #2a7f62", ("#2a7f62", "Team: North", False)),
+        ("Red team: #ff0000", ("#ff0000", "Red team", False)),
+        ("teal Harbour", ("teal", "Harbour", False)),
+        ("rgb(217, 162, 59) Amber !", ("rgb(217, 162, 59)", "Amber", True)),
+        ("rgb(0 0 0 / 50%) Shadow (locked) # note", ("rgb(0 0 0 / 50%)", "Shadow", True)),
+        ("oklch(70% 0.1 200)  Sea", ("oklch(70% 0.1 200)", "Sea", False)),
+        ("Sea: oklch(70% 0.1 200)", ("oklch(70% 0.1 200)", "Sea", False)),
+        ("1f6f8b bare digits", ("1f6f8b", "bare digits", False)),
+        ("#abc!", ("#abc", None, True)),
+    ],
+)
+def test_text_grammar(line, entry):
+    from palettecheck.read.text import parse_line
+
+    assert parse_line(line) == entry
+
+
+@pytest.mark.parametrize("line", ["#12345", "nope", "Revenue: not-a-colour", "rgb(1 2) x"])
+def test_text_grammar_errors(tmp_path, line):
+    f = tmp_path / "p.txt"
+    f.write_text(f"#1f6f8b ok\n{line}\n")
+    with pytest.raises(ReadError, match="line 2"):
+        read_source(str(f))
