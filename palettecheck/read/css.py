@@ -25,7 +25,7 @@ import re
 from pathlib import Path
 
 from ..color import MAX_COLOR_CHARS, ColorError, Palette, looks_like_color, make_palette, read_color
-from .files import read_text_file
+from .files import read_text_file, shown
 
 __all__ = ["read", "declarations", "color_entries", "color_spans", "mask_comments"]
 
@@ -162,5 +162,5 @@ def read(path: Path, background) -> Palette:
     entries, _, notes = color_entries(read_text_file(path))
     if not entries and notes:
         raise ColorError(f"no colour read ({notes[0]})")
-    palette = make_palette(entries, str(path), background)
+    palette = make_palette(entries, shown(path), background)
     return Palette(palette.swatches, palette.source, palette.notes + tuple(notes))

@@ -27,8 +27,8 @@ import math
 from pathlib import Path
 
 from ..color import ColorError, Palette, make_palette
-from ..config import LIMITS
-from .files import nesting_depth, read_text_file
+from ..config import LIMITS, nesting_depth
+from .files import read_text_file, shown
 
 __all__ = ["read", "load_json"]
 
@@ -163,4 +163,4 @@ def read(path: Path, background) -> Palette:
             entries = [(c, k, lock) for (c, _, lock), k in zip(entries, data)]
     else:
         raise ColorError("expected a list of colours, an object of name -> colour, or design tokens")
-    return make_palette(entries, str(path), background)
+    return make_palette(entries, shown(path), background)

@@ -38,7 +38,7 @@ import re
 from pathlib import Path
 
 from ..color import MAX_COLOR_CHARS, ColorError, Palette, make_palette, read_color
-from .files import read_text_file
+from .files import read_text_file, shown
 
 __all__ = ["parse_line", "read"]
 
@@ -126,4 +126,4 @@ def read(path: Path, background) -> Palette:
             raise ColorError(f"line {n}: {e}") from None
         if entry is not None:
             entries.append(entry)
-    return make_palette(entries, str(path), background)
+    return make_palette(entries, shown(path), background)
