@@ -375,6 +375,8 @@ def load_settings(start: Path | None = None) -> Settings:
             changes[name] = coerce_setting(name, value)
         except SettingsError as e:
             raise SettingsError(f"{path}: [tool.palettecheck] {key} {e}") from None
+    for b in changes.get("backgrounds", ()):
+        _background_hex(b, f"{path}: [tool.palettecheck] backgrounds")
     try:
         return dataclasses.replace(Settings(), **changes).validate()
     except (SettingsError, TypeError, ValueError) as e:
