@@ -1,33 +1,63 @@
 """Colour strings and palettes.
 
-Accepted colour syntax (CSS Color Module Level 4, the subset charts use):
-``#rgb``, ``#rgba``, ``#rrggbb``, ``#rrggbbaa``, ``rgb()``/``rgba()`` with numbers or
-percentages, ``hsl()``/``hsla()`` with an optional angle unit, either the comma or the
-space-and-slash form, and the CSS named colours (from webcolors' CSS3 table plus
-``rebeccapurple``, the one name CSS Color 4 adds). A colour with alpha below 1 is
+Accepted colour syntax: every colour of CSS Color Module Level 4 -- ``#rgb``,
+``#rgba``, ``#rrggbb``, ``#rrggbbaa`` (and the bare six or eight digits palette files
+write), ``rgb()``/``rgba()``, ``hsl()``/``hsla()``, ``hwb()``, ``lab()``, ``lch()``,
+``oklab()``, ``oklch()`` and ``color()`` in the predefined spaces (srgb, srgb-linear,
+display-p3, a98-rgb, prophoto-rgb, rec2020, xyz, xyz-d50, xyz-d65), comma or
+space-and-slash forms, ``none`` channels, and the CSS named colours.
+
+Hex, plain ``rgb()`` and the names are read here (the fast path: no import); every
+other syntax is parsed by coloraide, a maintained CSS Color 4 implementation, which
+is imported only then (it takes about 0.1 s to import). ``rgb()``, ``hsl()``,
+``hwb()`` and hex are sRGB by definition and clamped to it as CSS does; a colour of
+the other syntaxes that lies outside sRGB is gamut-mapped with CSS Color 4's
+algorithm (chroma reduction in OKLCh until within ΔEok 0.02 of the clipped colour;
+coloraide's ``oklch-chroma``) and a note says so. A colour with alpha below 1 is
 composited over the first background and a note says so.
 """
 
 from __future__ import annotations
 
-import colorsys
 import math
 import re
 from dataclasses import dataclass, field, replace
+from typing import NamedTuple
 
 import numpy as np
 
 from .errors import ColorError
 
-__all__ = ["ColorError", "Swatch", "Palette", "parse_color", "opaque_hex", "to_hex", "make_palette"]
+__all__ = ["ColorError", "Swatch", "Palette", "ParsedColor", "parse_color", "read_color", "opaque_hex",
+           "to_hex", "make_palette", "looks_like_color", "MAX_COLOR_CHARS"]
 
 
 WHITE = (255.0, 255.0, 255.0)
 
+#: Colour texts longer than this are refused before any parsing (the longest real
+#: colour, ``color(prophoto-rgb ...)`` with long decimals and alpha, is under 100).
+MAX_COLOR_CHARS = 256
+
 _HEX = re.compile(r"#?([0-9a-fA-F]{3,4}|[0-9a-fA-F]{6}|[0-9a-fA-F]{8})")
-_FUNC = re.compile(r"(rgba?|hsla?)\(\s*(.*?)\s*\)", re.IGNORECASE | re.DOTALL)
+_RGB = re.compile(r"rgba?\(([^()]*)\)", re.IGNORECASE)
 _NUM = r"[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?"
 _TOKEN = re.compile(rf"({_NUM})(%|deg|grad|rad|turn)?", re.IGNORECASE)
+#: CSS colour functions handed to coloraide.
+_FUNCTIONS = ("rgb", "rgba", "hsl", "hsla", "hwb", "lab", "lch", "oklab", "oklch", "color")
+_FUNC_NAME = re.compile(r"([a-zA-Z]+)\s*\(")
+#: Syntaxes that are sRGB by definition: CSS clamps them to sRGB (Color 4, 5.1, 7, 8).
+_CLAMPED = frozenset({"rgb", "rgba", "hsl", "hsla", "hwb"})
+#: coloraide spaces CSS Color 4 names (coloraide knows more: those are refused).
+_CSS_SPACES = frozenset({"srgb", "hsl", "hwb", "lab", "lch", "oklab", "oklch", "srgb-linear", "display-p3",
+                         "a98-rgb", "prophoto-rgb", "rec2020", "xyz-d65", "xyz-d50"})
+
+
+class ParsedColor(NamedTuple):
+    """A colour read from text: sRGB 0-255, alpha 0-1, and whether it was gamut-mapped."""
+
+    rgb: tuple
+    alpha: float
+    mapped: bool = False
 
 
 def to_hex(srgb255) -> str:
@@ -35,6 +65,11 @@ def to_hex(srgb255) -> str:
     # half up, as browsers round rgb(10% 20% 30%) to #1a334d (Python's round() is half-even)
     r, g, b = (int(math.floor(min(255.0, max(0.0, float(c))) + 0.5)) for c in srgb255)
     return f"#{r:02x}{g:02x}{b:02x}"
+
+
+def _shown(s: str) -> str:
+    """The text quoted for a message, shortened when long."""
+    return repr(s if len(s) <= 60 else s[:57] + "...")
 
 
 def _named(name: str):
@@ -48,49 +83,94 @@ def _named(name: str):
         return None
 
 
-def _number(tok: str, unit: str | None, full: float) -> float:
-    v = float(tok)
-    return v / 100.0 * full if unit == "%" else v
-
-
-def _alpha(tok: str, unit: str | None) -> float:
-    return float(tok) / 100.0 if unit == "%" else float(tok)
-
-
-def _split_args(body: str, text: str) -> tuple[list, tuple | None]:
-    """Split the inside of rgb()/hsl() into three channel tokens and an optional alpha."""
-    alpha = None
+def _rgb_fast(body: str, text: str) -> ParsedColor:
+    """``rgb()`` / ``rgba()`` with numbers or percentages (the common case, no import)."""
+    alpha_tok = None
     if "/" in body:
         body, _, a = body.partition("/")
-        alpha = a.strip()
+        alpha_tok = a.strip()
     parts = [p for p in re.split(r"[\s,]+", body.strip()) if p]
-    if alpha is None and len(parts) == 4:
-        alpha = parts.pop()
+    if alpha_tok is None and len(parts) == 4:
+        alpha_tok = parts.pop()
     if len(parts) != 3:
-        raise ColorError(f"{text!r}: expected three channels")
-    toks = []
+        raise ColorError(f"{_shown(text)}: expected three channels")
+    rgb = []
     for p in parts:
         m = _TOKEN.fullmatch(p)
         if not m:
-            raise ColorError(f"{text!r}: cannot read channel {p!r}")
-        toks.append((m.group(1), (m.group(2) or "").lower() or None))
-    a = None
-    if alpha is not None:
-        m = _TOKEN.fullmatch(alpha)
+            raise ColorError(f"{_shown(text)}: cannot read channel {p!r}")
+        unit = (m.group(2) or "").lower()
+        if unit not in ("", "%"):
+            raise ColorError(f"{_shown(text)}: rgb() channels take numbers or percentages")
+        v = float(m.group(1))
+        rgb.append(v / 100.0 * 255.0 if unit == "%" else v)
+    alpha = 1.0
+    if alpha_tok is not None:
+        m = _TOKEN.fullmatch(alpha_tok)
         if not m or (m.group(2) or "%") != "%":
-            raise ColorError(f"{text!r}: cannot read alpha {alpha!r}")
-        a = (m.group(1), "%" if m.group(2) else None)
-    return toks, a
+            raise ColorError(f"{_shown(text)}: cannot read alpha {alpha_tok!r}")
+        alpha = float(m.group(1)) / (100.0 if m.group(2) else 1.0)
+    if not all(math.isfinite(c) for c in rgb) or not math.isfinite(alpha):
+        raise ColorError(f"{_shown(text)}: channels must be finite")
+    return ParsedColor(tuple(min(255.0, max(0.0, c)) for c in rgb), min(1.0, max(0.0, alpha)))
 
 
-def parse_color(text: str) -> tuple[tuple[float, float, float], float]:
-    """Parse a CSS colour string into (sRGB 0-255 triple, alpha 0-1).
+def _css(s: str, func: str) -> ParsedColor:
+    """Any CSS Color 4 function, through coloraide."""
+    from coloraide import Color
+
+    try:
+        c = Color(s)
+    except (ValueError, TypeError, KeyError, IndexError, OverflowError):
+        raise ColorError(f"{_shown(s)} is not a CSS colour") from None
+    space = c.space()
+    if space not in _CSS_SPACES:
+        raise ColorError(f"{_shown(s)}: {space} is not a CSS colour space")
+    coords = c.coords(nans=False)  # CSS: a 'none' channel is 0 when the colour is used
+    alpha = c.alpha(nans=False)
+    if not all(math.isfinite(v) for v in (*coords, alpha)):
+        raise ColorError(f"{_shown(s)}: channels must be finite")
+    mapped = False
+    if func in _CLAMPED:
+        if space in ("hsl", "hwb"):  # saturation and lightness (whiteness, blackness) are 0-1 here
+            coords = [coords[0] % 360.0, *(min(1.0, max(0.0, v)) for v in coords[1:])]
+        srgb = Color(space, coords).convert("srgb").coords(nans=False)
+    else:
+        c = Color(space, coords).convert("srgb")
+        if not c.in_gamut():
+            c = c.fit(method="oklch-chroma")  # CSS Color 4, 13.2 "CSS gamut mapping"
+            mapped = True
+        srgb = c.coords(nans=False)
+    rgb = tuple(min(255.0, max(0.0, 255.0 * v)) for v in srgb)
+    if not all(math.isfinite(v) for v in rgb):
+        raise ColorError(f"{_shown(s)}: channels must be finite")
+    return ParsedColor(rgb, min(1.0, max(0.0, alpha)), mapped)
+
+
+def looks_like_color(text: str) -> bool:
+    """Whether the text is shaped like a colour (hex digits, a colour function, a
+    single word): used to tell a colour that fails from a value that is no colour."""
+    s = text.strip()
+    if not s or len(s) > MAX_COLOR_CHARS:
+        return False
+    if s.startswith("#"):
+        return True
+    m = _FUNC_NAME.match(s)
+    return bool(m and m.group(1).lower() in _FUNCTIONS)
+
+
+def read_color(text: str) -> ParsedColor:
+    """Parse a CSS colour string: sRGB 0-255 triple, alpha 0-1, gamut-mapped or not.
 
     :raises ColorError: when the text is not a colour.
     """
+    if not isinstance(text, str):
+        raise ColorError(f"expected a colour string, got {type(text).__name__}")
     s = text.strip()
     if not s:
         raise ColorError("empty colour")
+    if len(s) > MAX_COLOR_CHARS:
+        raise ColorError(f"{_shown(s)} ({len(s)} characters) is too long to be a colour")
     m = _HEX.fullmatch(s)
     if m and (s.startswith("#") or len(s) in (6, 8)):
         h = m.group(1)
@@ -98,34 +178,36 @@ def parse_color(text: str) -> tuple[tuple[float, float, float], float]:
             h = "".join(c * 2 for c in h)
         vals = [int(h[i : i + 2], 16) for i in range(0, len(h), 2)]
         alpha = vals[3] / 255.0 if len(vals) == 4 else 1.0
-        return (float(vals[0]), float(vals[1]), float(vals[2])), alpha
-    m = _FUNC.fullmatch(s)
-    if m:
-        kind = m.group(1).lower()[:3]
-        toks, a = _split_args(m.group(2), s)
-        alpha = 1.0 if a is None else _alpha(*a)
-        if kind == "rgb":
-            rgb = tuple(_number(t, u, 255.0) for t, u in toks)
-            if any(u not in (None, "%") for _, u in toks):
-                raise ColorError(f"{s!r}: rgb() channels take numbers or percentages")
-        else:
-            (h, hu), (sat, su), (light, lu) = toks
-            if hu == "%" or su not in ("%", None) or lu not in ("%", None):
-                raise ColorError(f"{s!r}: hsl() takes an angle and two percentages")
-            turn = {"deg": 1 / 360, None: 1 / 360, "grad": 1 / 400, "rad": 1 / (2 * math.pi), "turn": 1.0}[hu]
-            if not math.isfinite(float(h)):  # inf % 1.0 is nan, which colorsys turns into grey
-                raise ColorError(f"{s!r}: channels must be finite")
-            hue = (float(h) * turn) % 1.0
-            sat_, light_ = (min(1.0, max(0.0, float(v) / 100.0)) for v in (sat, light))
-            rgb = tuple(255.0 * c for c in colorsys.hls_to_rgb(hue, light_, sat_))
-        if not all(math.isfinite(c) for c in rgb) or not math.isfinite(alpha):
-            raise ColorError(f"{s!r}: channels must be finite")
-        rgb = tuple(min(255.0, max(0.0, c)) for c in rgb)
-        return rgb, min(1.0, max(0.0, alpha))
-    named = _named(s.lower())
-    if named is not None:
-        return named, 1.0
-    raise ColorError(f"{s!r} is not a colour (use #rrggbb, rgb(), hsl() or a CSS colour name)")
+        return ParsedColor((float(vals[0]), float(vals[1]), float(vals[2])), alpha)
+    m = _FUNC_NAME.match(s)
+    if m and m.group(1).lower() in _FUNCTIONS and s.endswith(")"):
+        func = m.group(1).lower()
+        fast = _RGB.fullmatch(s) if func in ("rgb", "rgba") else None
+        if fast:
+            try:
+                return _rgb_fast(fast.group(1), s)
+            except ColorError as first:
+                try:  # 'none' channels and other forms the fast path does not read
+                    return _css(s, func)
+                except ColorError:
+                    raise first from None
+        return _css(s, func)
+    if s.isascii() and s.isalpha():
+        named = _named(s.lower())
+        if named is not None:
+            return ParsedColor(named, 1.0)
+    raise ColorError(f"{_shown(s)} is not a colour (use #rrggbb, rgb(), hsl(), oklch() or another "
+                     "CSS colour, or a CSS colour name)")
+
+
+def parse_color(text: str) -> tuple[tuple[float, float, float], float]:
+    """Parse a CSS colour string into (sRGB 0-255 triple, alpha 0-1); colours outside
+    sRGB are gamut-mapped (see :func:`read_color` to learn whether one was).
+
+    :raises ColorError: when the text is not a colour.
+    """
+    rgb, alpha, _ = read_color(text)
+    return rgb, alpha
 
 
 def opaque_hex(text: str) -> str:
@@ -208,8 +290,19 @@ def make_palette(entries, source: str = "", background=WHITE) -> Palette:
     :raises ColorError: naming the entry that cannot be read.
     """
     swatches, notes = [], []
-    for text, name, locked in entries:
-        rgb, alpha = parse_color(text)
+    for k, (text, name, locked) in enumerate(entries, 1):
+        if name is not None and not isinstance(name, str):
+            raise ColorError(f"entry {k}: a name must be text, not {type(name).__name__}")
+        if name:
+            try:
+                name.encode("utf-8")
+            except UnicodeEncodeError as e:
+                raise ColorError(f"entry {k}: name holds a lone surrogate (U+{ord(name[e.start]):04X}), "
+                                 "which is not text") from None
+        rgb, alpha, mapped = read_color(text)
+        if mapped:
+            notes.append(f"{text.strip()} lies outside sRGB: gamut-mapped to {to_hex(rgb)} "
+                         "(CSS Color 4 chroma reduction in OKLCh)")
         if alpha < 1.0:
             rgb = composite(rgb, alpha, background)
             notes.append(f"{text.strip()} is {alpha:.0%} opaque: measured over {to_hex(background)}")

@@ -21,14 +21,19 @@ from __future__ import annotations
 import dataclasses
 import math
 import os
+import re
+import stat
+import types
+import typing
 from dataclasses import dataclass, fields
 from pathlib import Path
+from typing import NamedTuple
 
 from .color import opaque_hex
 from .errors import ColorError, SettingsError
 from .terms import CVD_MODELS, DEFAULT_VISIONS, KINDS, MARKS, SURROUNDS, VISIONS
 
-__all__ = ["Settings", "Viewing", "SRGB_VIEWING", "MARK_ANGLE", "noticeable_difference", "mark_threshold",
+__all__ = ["Settings", "Limits", "LIMITS", "RANGES", "Range", "coerce_setting", "nesting_depth", "Viewing", "SRGB_VIEWING", "MARK_ANGLE", "noticeable_difference", "mark_threshold",
            "load_settings", "settings_from", "parse_band", "SettingsError"]
 
 
@@ -160,6 +165,13 @@ class Settings:
             raise SettingsError(f"L_A must be positive and Y_b in (0, 100], not {self.L_A}, {self.Y_b}")
         if not 0 <= self.fail_under <= 100:
             raise SettingsError(f"fail_under must lie in 0-100, not {self.fail_under}")
+        for f in fields(self):  # every number, also fields added later: finite, in RANGES
+            value = getattr(self, f.name)
+            if isinstance(value, (int, float)) and not isinstance(value, bool):
+                if not math.isfinite(value):
+                    raise SettingsError(f"{f.name} must be a finite number, not {value}")
+                if f.name in RANGES and value not in RANGES[f.name]:
+                    raise SettingsError(f"{f.name} must be {RANGES[f.name]}, not {value:g}")
         return self
 
     def with_min_contrast(self, ratio: float | None) -> "Settings":
@@ -188,33 +200,187 @@ def find_pyproject(start: Path | None = None) -> Path | None:
     return None
 
 
-def load_settings(start: Path | None = None) -> Settings:
-    """Defaults overridden by the nearest ``[tool.palettecheck]`` table."""
-    path = find_pyproject(start)
-    if path is None:
-        return Settings()
+class Range(NamedTuple):
+    """Allowed values of a number: ``lo``/``hi`` (None: unbounded), open or closed."""
+
+    lo: float | None = None
+    hi: float | None = None
+    lo_open: bool = False
+    hi_open: bool = False
+
+    def __contains__(self, v) -> bool:
+        return ((self.lo is None or (v > self.lo if self.lo_open else v >= self.lo))
+                and (self.hi is None or (v < self.hi if self.hi_open else v <= self.hi)))
+
+    def __str__(self) -> str:
+        if self.hi is None:
+            return f"{'above' if self.lo_open else 'at least'} {self.lo:g}"
+        if self.lo is None:
+            return f"{'below' if self.hi_open else 'at most'} {self.hi:g}"
+        return f"in {'(' if self.lo_open else '['}{self.lo:g}, {self.hi:g}{')' if self.hi_open else ']'}"
+
+
+#: Allowed range of every number in :class:`Settings` (a field missing here only
+#: has to be finite). WCAG ratios lie in [1, 21] (WCAG 2.1, definition of
+#: contrast ratio); the rest keep the checks meaningful (common practice, no source).
+RANGES: dict[str, Range] = {
+    "severity": Range(0.0, 1.0),
+    "min_delta_e": Range(0.0, None, lo_open=True),
+    "comfort_factor": Range(1.0, None),
+    "duplicate_delta_e": Range(0.0, None),
+    "graphic_contrast": Range(1.0, 21.0),
+    "text_contrast": Range(1.0, 21.0),
+    "enhanced_contrast": Range(1.0, 21.0),
+    "warn_count": Range(1, None),
+    "max_count": Range(1, None),
+    "step_cv": Range(0.0, None),
+    "symmetry_tolerance": Range(0.0, None),
+    "fail_under": Range(0.0, 100.0),
+    "L_A": Range(0.0, None, lo_open=True),
+    "Y_b": Range(0.0, 100.0, lo_open=True),
+}
+
+
+def _field_types() -> dict:
+    return typing.get_type_hints(Settings)
+
+
+def _type_words(hint) -> str:
+    origin, args = typing.get_origin(hint), typing.get_args(hint)
+    if origin in (typing.Union, types.UnionType):
+        return " or ".join(_type_words(a) for a in args if a is not type(None))
+    if origin is tuple:
+        return f"a list of {_type_words(args[0]).replace('a ', '', 1)}s" if args else "a list"
+    return {bool: "true or false", int: "a whole number", float: "a number", str: "a string"}.get(
+        hint, getattr(hint, "__name__", str(hint)))
+
+
+def _shown_value(value) -> str:
+    text = repr(value)
+    return text if len(text) <= 40 else text[:37] + "..."
+
+
+def coerce_setting(name: str, value, hint=None):
+    """``value`` as the type of Settings field ``name`` (read from its annotation),
+    finite and within :data:`RANGES`; raises SettingsError saying what is wrong.
+    A single string stands for a list of one."""
+    hint = _field_types()[name] if hint is None else hint
+    origin, args = typing.get_origin(hint), typing.get_args(hint)
+
+    def bad():
+        return SettingsError(f"must be {_type_words(hint)}, not {_shown_value(value)}")
+
+    if origin in (typing.Union, types.UnionType):
+        for arg in args:
+            if arg is type(None):
+                continue
+            try:
+                return coerce_setting(name, value, arg)
+            except SettingsError:
+                pass
+        raise bad()
+    if origin is tuple:
+        item = args[0] if args else object
+        if isinstance(value, str) and item is str:
+            value = [value]
+        if not isinstance(value, (list, tuple)):
+            raise bad()
+        try:
+            return tuple(coerce_setting(name, v, item) for v in value)
+        except SettingsError:
+            raise bad() from None
+    if hint is bool:
+        if not isinstance(value, bool):
+            raise bad()
+        return value
+    if hint in (int, float):
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or (hint is int and isinstance(value, float)):
+            raise bad()
+        if not math.isfinite(value):
+            raise SettingsError(f"must be a finite number, not {_shown_value(value)}")
+        if name in RANGES and value not in RANGES[name]:
+            raise SettingsError(f"must be {RANGES[name]}, not {value:g}")
+        return hint(value)
+    if hint is str:
+        if not isinstance(value, str):
+            raise bad()
+        return value
+    return value
+
+
+def _toml(path: Path) -> dict:
+    """The parsed file, every failure one SettingsError naming it."""
     try:
         import tomllib
     except ImportError:  # Python < 3.11
         import tomli as tomllib
     try:
-        with open(path, "rb") as f:
-            table = tomllib.load(f).get("tool", {}).get("palettecheck", {})
-    except (OSError, tomllib.TOMLDecodeError) as e:
-        raise SettingsError(f"{path}: {e}") from None
-    known = {f.name: f for f in fields(Settings)}
+        # regular files only, size-limited (as read.files does for palette files)
+        st = path.stat()
+        if not stat.S_ISREG(st.st_mode):
+            raise SettingsError(f"{path}: not a regular file")
+        if st.st_size > LIMITS.config_file_bytes:
+            raise SettingsError(f"{path}: {st.st_size} bytes is more than the "
+                                f"{LIMITS.config_file_bytes // 2**20} MB allowed for a config file")
+        data = path.read_bytes()
+    except OSError as e:
+        raise SettingsError(f"{path}: cannot read ({e.strerror or e})") from None
+    if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
+        raise SettingsError(f"{path}: UTF-16 text; TOML files are UTF-8")
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as e:
+        raise SettingsError(f"{path}: not UTF-8 (byte {e.start} cannot be read); TOML files are UTF-8") from None
+    if _nesting(text) > LIMITS.nesting_depth:
+        raise SettingsError(f"{path}: nested more than {LIMITS.nesting_depth} levels deep")
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as e:
+        raise SettingsError(f"{path}: not valid TOML ({e})") from None
+    except RecursionError:
+        raise SettingsError(f"{path}: nested more than {LIMITS.nesting_depth} levels deep") from None
+    except ValueError as e:  # integers past Python's digit limit
+        why = "an integer with more digits than Python reads" if "digits" in str(e) else str(e)[:80]
+        raise SettingsError(f"{path}: not valid TOML ({why})") from None
+
+
+def _nesting(text: str) -> int:
+    return nesting_depth(text, LIMITS.nesting_depth, toml=True)
+
+
+def load_settings(start: Path | None = None) -> Settings:
+    """Defaults overridden by the nearest ``[tool.palettecheck]`` table.
+
+    Every key is checked against its :class:`Settings` field: the type comes from
+    the field's annotation, numbers must be finite and within :data:`RANGES`.
+    :raises SettingsError: one line naming the file and the key.
+    """
+    path = find_pyproject(start)
+    if path is None:
+        return Settings()
+    doc = _toml(path)
+    tool = doc.get("tool", {})
+    if not isinstance(tool, dict):
+        raise SettingsError(f"{path}: [tool] must be a table, not {type(tool).__name__}")
+    table = tool.get("palettecheck", {})
+    if not isinstance(table, dict):
+        raise SettingsError(f"{path}: [tool.palettecheck] must be a table, not {type(table).__name__}")
+    known = {f.name for f in fields(Settings)}
     changes = {}
     for key, value in table.items():
         name = key.replace("-", "_")
         if name not in known:
-            raise SettingsError(f"{path}: unknown key [tool.palettecheck] {key}")
-        if name in ("backgrounds", "visions"):
-            value = tuple([value] if isinstance(value, str) else value)
-        changes[name] = value
+            raise SettingsError(f"{path}: unknown key [tool.palettecheck] {_shown_value(key)}")
+        try:
+            changes[name] = coerce_setting(name, value)
+        except SettingsError as e:
+            raise SettingsError(f"{path}: [tool.palettecheck] {key} {e}") from None
+    for b in changes.get("backgrounds", ()):
+        _background_hex(b, f"{path}: [tool.palettecheck] backgrounds")
     try:
         return dataclasses.replace(Settings(), **changes).validate()
-    except (SettingsError, TypeError) as e:
-        raise SettingsError(f"{path}: {e}") from None
+    except (SettingsError, TypeError, ValueError) as e:
+        raise SettingsError(f"{path}: [tool.palettecheck] {e}") from None
 
 
 def _background_hex(text: str, where: str) -> str:
@@ -256,3 +422,79 @@ def parse_band(text: str) -> tuple[float, float]:
     if len(band) != 2:
         raise SettingsError(f"{text!r}: expected MIN:MAX, two numbers (J', 0-100)")
     return band
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Hard limits on input, checked before the work they bound (each is a rule of
+    thumb sized well above real palettes and charts: common practice, no source)."""
+
+    #: palette files (.txt, .json, .tokens, .css): a palette is a few kB
+    palette_file_bytes: int = 4 * 1024 * 1024
+    #: raster chart images: a 64-megapixel PNG compresses to well under this
+    image_file_bytes: int = 256 * 1024 * 1024
+    #: pyproject.toml read for [tool.palettecheck]
+    config_file_bytes: int = 4 * 1024 * 1024
+    #: nesting of JSON / design-token / TOML structures (tokens nest 3-6 deep)
+    nesting_depth: int = 64
+    #: digits of an integer in a palette file (Python refuses past 4300)
+    integer_digits: int = 100
+    #: pixels an image header may announce (an 8000 x 8000 chart; 4K is 8.3 million)
+    image_pixels: int = 64_000_000
+    #: folders below a folder given to scan
+    folder_depth: int = 64
+    #: simulate: longest side of each view drawn on the side-by-side sheet
+    sheet_view_pixels: int = 1200
+    #: seconds one simulate may take before it stops with an error
+    simulate_seconds: float = 10.0
+
+
+#: The limits in force.
+LIMITS = Limits()
+
+
+_JSON_STRUCT = re.compile(r'[\[\]{}"]')
+_TOML_STRUCT = re.compile(r"""[\[\]{}"'#]""")
+_JSON_STRING_REST = re.compile(r'(?:[^"\\]|\\.)*"', re.DOTALL)
+_TOML_ENDS = {'"': re.compile(r'(?:[^"\\\n]|\\.)*"', re.DOTALL), "'": re.compile(r"[^'\n]*'"),
+              '"""': re.compile(r'(?:[^"\\]|\\.|"(?!""))*"""', re.DOTALL), "'''": re.compile(r"(?:[^']|'(?!''))*'''")}
+
+
+def nesting_depth(text: str, limit: int, toml: bool = False) -> int:
+    """The deepest nesting of ``[ ]`` and ``{ }`` outside strings (and TOML comments),
+    found without recursion; stops and returns as soon as it passes ``limit``.
+
+    Run before ``json.loads`` / ``tomllib.loads``, which recurse once per level and
+    end in RecursionError on deep input. Unterminated strings stop the scan: the
+    parser reports them.
+    """
+    struct = _TOML_STRUCT if toml else _JSON_STRUCT
+    depth = deepest = pos = 0
+    while True:
+        m = struct.search(text, pos)
+        if m is None:
+            return deepest
+        c = m.group()
+        if c == "#":
+            nl = text.find("\n", m.end())
+            if nl < 0:
+                return deepest
+            pos = nl + 1
+            continue
+        if c in "\"'":
+            if toml:
+                triple = text.startswith(c * 3, m.start())
+                key = c * 3 if triple else c
+                end = _TOML_ENDS[key].match(text, m.start() + len(key))
+            else:
+                end = _JSON_STRING_REST.match(text, m.end())
+            if end is None:
+                return deepest
+            pos = end.end()
+            continue
+        depth += 1 if c in "[{" else -1
+        if depth > deepest:
+            deepest = depth
+            if deepest > limit:
+                return deepest
+        pos = m.end()

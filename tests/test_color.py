@@ -1,7 +1,8 @@
 """palettecheck.color: CSS colour strings and palettes.
 
 Syntax follows CSS Color Module Level 4 (hex notation section 5.2, rgb() 5.1,
-hsl() 7, named colours 6.1). Letters V/C/M are defined in docs/references.md.
+hsl() 7, named colours 6.1;
+hwb() 8, lab()/lch() 9, oklab()/oklch() 10, color() 11, gamut mapping 13). Letters V/C/M are defined in docs/references.md.
 """
 
 import math
@@ -162,7 +163,8 @@ def test_every_css4_name():
         "", "   ", "nope", "transparent", "currentcolor", "#ab", "#abcde", "#aabbccdde", "#ggg", "abc",
         "rgb()", "rgb(1,2)", "rgb(1,2,3,4,5)", "rgb(a,b,c)", "rgb(1deg,2,3)", "rgb(1,2,3 / 2deg)",
         "rgb(nan,0,0)", "rgb(1e999,0,0)", "hsl(10%, 50%, 50%)", "hsl(10, 50deg, 50%)",
-        "hsl(1e999, 10%, 10%)", "rgb(1,2,3) x", "url(#a)", "lab(50% 0 0)",
+        "hsl(1e999, 10%, 10%)", "rgb(1,2,3) x", "url(#a)", "color(--hsv 0 1 1)", "lab(1e999 0 0)",
+        "oklch(0.5 0.1)", "color(srgb 1 0)", "color(nospace 1 0 0)", "rgb(" + "1 " * 300 + ")",
     ],
 )
 def test_errors(text):
@@ -227,3 +229,120 @@ def test_hex_rounds_half_up_like_browsers():
     from palettecheck.color import to_hex
 
     assert to_hex((25.5, 51.0, 76.5)) == "#1a334d"
+
+
+# --- CSS Color 4 syntaxes beyond sRGB (read through coloraide) --------------------------
+
+
+@pytest.mark.parametrize(
+    ("text", "hex_", "alpha"),
+    [
+        # M: CSS Color 4 section 8 (hwb): hue plus white and black mixed in; when
+        # whiteness + blackness >= 100 % the result is a grey of w / (w + b).
+        ("hwb(0 0% 0%)", "#ff0000", 1.0),
+        ("hwb(120 0% 0%)", "#00ff00", 1.0),
+        ("hwb(0 50% 50%)", "#808080", 1.0),
+        ("hwb(0 100% 0% / 0.5)", "#ffffff", 0.5),
+        # M: CSS Color 4 sections 9-10: L = 100 % (lab, lch) or 1 (oklab, oklch) with no
+        # chroma is the white point, L = 0 is black.
+        ("lab(100 0 0)", "#ffffff", 1.0),
+        ("lab(0% 0 0)", "#000000", 1.0),
+        ("lch(100% 0 0)", "#ffffff", 1.0),
+        ("oklab(0 0 0)", "#000000", 1.0),
+        ("oklch(100% 0 0 / 25%)", "#ffffff", 0.25),
+        # M: section 11, color(srgb r g b) is rgb() on the 0-1 scale.
+        ("color(srgb 1 0 0)", "#ff0000", 1.0),
+        ("color(srgb 0.1 0.2 0.3 / 0.5)", "#1a334d", 0.5),
+        # V: IEC 61966-2-1 transfer function: linear 0.5 encodes as 1.055 * 0.5**(1/2.4) - 0.055
+        # = 0.7354, 187.5 -> 188 = 0xbc.
+        ("color(srgb-linear 0.5 0.5 0.5)", "#bcbcbc", 1.0),
+        ("rgb(none 0 0)", "#000000", 1.0),  # M: section 4.4, 'none' is 0 when the colour is used
+    ],
+)
+def test_css4_syntaxes(text, hex_, alpha):
+    assert _hex(text) == (hex_, pytest.approx(alpha, abs=1e-12))
+
+
+@pytest.mark.parametrize("text", ["rgb(0 0 0 / 50%)", "hsl(120 50% 50% / 0.5)", "HSL(120 50% 50% / .5)"])
+def test_slash_alpha(text):
+    """M: CSS Color 4 sections 5.1 and 7, the space-and-slash form; hsl(120 50% 50%) is
+    (63.75, 191.25, 63.75) by the section 7.1 hslToRgb sample code."""
+    rgb, alpha = parse_color(text)
+    assert alpha == pytest.approx(0.5)
+    assert to_hex(rgb) in ("#000000", "#40bf40")
+
+
+def test_css4_against_coloraide():
+    """C: coloraide's CSS parser and its CSS Color 4 gamut mapping (oklch-chroma) give
+    the same sRGB for seeded random lab/lch/oklab/oklch/hwb/color() strings."""
+    from coloraide import Color
+
+    rng = np.random.default_rng(5)
+    texts = []
+    for _ in range(30):
+        L, a, b = rng.uniform(0, 100), rng.uniform(-120, 120), rng.uniform(-120, 120)
+        c, h = rng.uniform(0, 150), rng.uniform(0, 360)
+        texts += [
+            f"lab({L:.3f} {a:.3f} {b:.3f})",
+            f"lch({L:.3f}% {c:.3f} {h:.2f}deg)",
+            f"oklab({L / 100:.4f} {a / 300:.4f} {b / 300:.4f})",
+            f"oklch({L:.2f}% {c / 400:.4f} {h:.2f})",
+            f"hwb({h:.2f} {rng.uniform(0, 60):.2f}% {rng.uniform(0, 60):.2f}%)",
+            f"color(display-p3 {rng.uniform(0, 1):.4f} {rng.uniform(0, 1):.4f} {rng.uniform(0, 1):.4f})",
+            f"color(rec2020 {rng.uniform(0, 1):.4f} {rng.uniform(0, 1):.4f} {rng.uniform(0, 1):.4f})",
+        ]
+    mapped = 0
+    for text in texts:
+        rgb, alpha = parse_color(text)
+        theirs = Color(text).convert("srgb")
+        if not theirs.in_gamut():
+            theirs = theirs.fit(method="oklch-chroma")
+            mapped += 1
+        np.testing.assert_allclose(np.array(rgb) / 255.0, np.clip(theirs.coords(), 0, 1), atol=1e-9,
+                                   err_msg=text)
+    assert mapped > 20  # the draw reaches outside sRGB often
+
+
+def test_gamut_mapping_keeps_the_colour_and_says_so():
+    """Out-of-sRGB colours are mapped, never dropped, and the palette notes it.
+
+    V: CSS Color 4 section 13 "CSS gamut map" pseudocode (read in csswg-drafts issue
+    9715): only OKLCh chroma is reduced, lightness and hue are kept, until the
+    clipped colour is within deltaEOK 0.02 (JND). So the result keeps L and h of the
+    source closely, has less chroma, and lies in sRGB.
+    """
+    from coloraide import Color
+
+    pal = make_palette([("oklch(0.5 0.205 230)", "sea", False), ("#ffffff", None, False)])
+    assert len(pal) == 2 and len(pal.notes) == 1 and "gamut-mapped" in pal.notes[0]
+    got = Color(pal.hexes[0]).convert("oklch")
+    assert got["lightness"] == pytest.approx(0.5, abs=0.01)
+    assert 0.1 < got["chroma"] < 0.205
+    on_line = Color("oklch", [0.5, got["chroma"], 230])  # the chroma-reduced source
+    assert got.delta_e(on_line, method="ok") < 0.02 + 0.01  # JND, plus #rrggbb rounding
+    # in gamut: no note
+    assert make_palette([("oklch(0.6 0.05 200)", None, False)]).notes == ()
+    # legacy sRGB syntaxes clamp as CSS says, with no note
+    assert make_palette([("rgb(300 0 0)", None, False)]).notes == ()
+
+
+def test_lab_lightness_percentage_is_css4():
+    """M: CSS Color 4 section 9.2 allows <percentage> for lab() lightness (100 % = 100)."""
+    assert _hex("lab(50% 0 0)") == _hex("lab(50 0 0)")
+
+
+def test_too_long_is_one_error():
+    with pytest.raises(ColorError, match="too long"):
+        parse_color("#" + "a" * 10_000)
+
+
+def test_fast_path_imports_nothing_heavy():
+    """Hex, plain rgb() and names are read without importing coloraide (start-up time)."""
+    import subprocess
+    import sys
+
+    code = ("import sys; from palettecheck.color import parse_color; "
+            "[parse_color(t) for t in ('#123', 'rgb(1 2 3 / 50%)', 'red')]; "
+            "print('coloraide' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "False"

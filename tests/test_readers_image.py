@@ -264,3 +264,36 @@ def test_ramp_order_follows_lightness_from_the_page():
     ramp = ["#f7fbff", "#c6dbef", "#6baed6", "#2171b5", "#08306b"]
     shuffled = [ramp[i] for i in (3, 0, 4, 2, 1)]
     assert [shuffled[i] for i in ramp_order(shuffled, "#ffffff")] == ramp
+
+
+# --- raster limits and the uint8 run counter (issue 9) --------------------------------
+
+
+def test_run_counter_matches_the_int16_reference():
+    """The uint8 comparison gives exactly what widening to int16 gave (the counter
+    before issue 9, kept here as the reference), alpha wrap-around included."""
+    import numpy as np
+
+    from palettecheck.read.raster import count_runs
+
+    def reference(values, flat_run, loose):
+        starts = np.concatenate(([0], np.flatnonzero(values[1:] != values[:-1]) + 1))
+        lengths = np.diff(np.append(starts, values.size))
+        uniq, inv = np.unique(values[starts], return_inverse=True)
+        counts = np.bincount(inv.ravel(), weights=lengths, minlength=len(uniq))
+        ch = values.view(np.uint8).reshape(-1, 4).astype(np.int16)
+        cut = np.flatnonzero(np.abs(ch[1:] - ch[:-1]).max(axis=1) > loose) + 1
+        q = np.concatenate(([0], cut))
+        run_len = np.diff(np.append(q, values.size))[np.searchsorted(q, starts, side="right") - 1]
+        flat = np.bincount(inv.ravel(), weights=np.where(run_len >= flat_run, lengths, 0), minlength=len(uniq))
+        return uniq, counts, flat
+
+    rng = np.random.default_rng(3)
+    base = rng.integers(0, 2**32, 400, dtype=np.uint32)
+    runs = np.repeat(base, rng.integers(1, 9, 400))
+    noise = rng.integers(0, 9, runs.size * 4).astype(np.uint8)
+    noisy = (runs.view(np.uint8) + noise).view(np.uint32)  # compression-like noise, wrapping at 255
+    for values in (runs, noisy,
+                   np.array([0, 0x01010101, 0x0A0A0A0A, 0xFF000000, 0, 0, 0], dtype=np.uint32)):
+        for got, want in zip(count_runs(values, 3, 6), reference(values, 3, 6)):
+            np.testing.assert_array_equal(got, want)

@@ -13,9 +13,10 @@ import os
 from importlib import import_module
 from pathlib import Path
 
-from ..color import WHITE, Palette, make_palette
+from ..color import WHITE, Palette, looks_like_color, make_palette
 from ..errors import ColorError, ReadError
 from .files import MAX_FILE_BYTES as MAX_FILE_BYTES
+from .files import shown
 from .images import IMAGE_EXTENSIONS, find_images, read_image
 
 __all__ = ["ReadError", "read_source", "read_sources", "READERS", "MAX_FILE_BYTES", "IMAGE_EXTENSIONS",
@@ -33,31 +34,46 @@ READERS = {
     ".svg": "svg",
 }
 
+def _exists(path: Path) -> tuple[bool, str | None]:
+    """Whether the path exists, and why it cannot be looked at (a name too long)."""
+    try:
+        return path.exists(), None
+    except OSError as e:  # ENAMETOOLONG and the like: no such file can exist
+        return False, e.strerror or str(e)
+    except ValueError:  # an embedded NUL
+        return False, "not a valid file name"
+
+
 def read_source(source: str, background=WHITE) -> Palette:
     """A palette from one SOURCE: a palette or image file, or a single colour."""
     path = Path(source)
-    ext = path.suffix.lower()
-    looks_like_file = ext in READERS or os.sep in source or path.exists()
-    if looks_like_file:
-        if not path.exists():
-            raise ReadError(f"{source}: no such file")
-        if path.is_dir():
-            raise ReadError(f"{source}: is a folder, not a palette file")
-        if ext not in READERS:
-            kinds = ", ".join(sorted(READERS))
-            raise ReadError(f"{source}: cannot read {ext or 'files without an extension'} (palette files: {kinds})")
-        module = import_module(f".{READERS[ext]}", __name__)
+    ext = path.suffix.lower() if len(source) < 4096 else ""
+    exists, why = _exists(path)
+    if not exists:
         try:
-            palette = module.read(path, background)
+            return make_palette([(source, None, False)], shown(source), background)
         except ColorError as e:
-            raise ReadError(f"{source}: {e}") from None
-        if len(palette) == 0:
-            raise ReadError(f"{source}: no colours found")
-        return palette
+            if why is not None or not (ext in READERS or os.sep in source):
+                if why is None or looks_like_color(source):
+                    raise ReadError(str(e)) from None
+                text = shown(source)
+                text = text if len(text) <= 60 else f"{text[:57]}... ({len(source)} characters)"
+                raise ReadError(f"{text}: not a colour, and no file can have this name ({why.lower()})") from None
+        raise ReadError(f"{shown(source)}: no such file")
+    if path.is_dir():
+        raise ReadError(f"{shown(source)}: is a folder, not a palette file")
+    if ext not in READERS:
+        kinds = ", ".join(sorted(READERS))
+        raise ReadError(f"{shown(source)}: cannot read {shown(ext) or 'files without an extension'} "
+                        f"(palette files: {kinds})")
+    module = import_module(f".{READERS[ext]}", __name__)
     try:
-        return make_palette([(source, None, False)], source, background)
+        palette = module.read(path, background)
     except ColorError as e:
-        raise ReadError(str(e)) from None
+        raise ReadError(f"{shown(source)}: {e}") from None
+    if len(palette) == 0:
+        raise ReadError(f"{shown(source)}: no colours found")
+    return palette
 
 
 def read_sources(sources, background=WHITE) -> Palette:

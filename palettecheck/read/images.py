@@ -7,9 +7,11 @@ import stat
 from pathlib import Path
 
 from ..color import WHITE, parse_color
+from ..config import LIMITS
 from ..errors import ReadError
 from ..terms import IMAGE_EXTENSIONS
 from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE, ChartColors, extract
+from .files import shown
 
 __all__ = ["IMAGE_EXTENSIONS", "background_rgb", "read_image", "find_images"]
 
@@ -46,10 +48,14 @@ def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
                    min_share=min_share, merge_radius=merge_radius)
 
 
-def find_images(paths) -> tuple[list[Path], list[tuple[str, str]]]:
+def find_images(paths, max_depth: int = LIMITS.folder_depth) -> tuple[list[Path], list[tuple[str, str]]]:
     """Chart files named or found under folders (walked, following links, each
     folder once: link loops end), sorted; hidden entries skipped. Returns
-    ``(files, errors)``; a file named explicitly is always kept."""
+    ``(files, errors)``; a file named explicitly is always kept.
+
+    The walk keeps its own stack (no recursion) and goes at most ``max_depth``
+    folders below each folder given; deeper folders are skipped with one error.
+    """
     files, errors, seen = [], [], set()
 
     def add(p: Path, st) -> None:
@@ -63,43 +69,49 @@ def find_images(paths) -> tuple[list[Path], list[tuple[str, str]]]:
         try:
             st = p.stat()
         except FileNotFoundError:
-            errors.append((str(p), f"{p}: no such file or folder"))
+            errors.append((str(p), f"{shown(p)}: no such file or folder"))
             continue
-        except OSError as e:
-            errors.append((str(p), f"{p}: cannot read ({e.strerror or e})"))
+        except (OSError, ValueError) as e:
+            errors.append((str(p), f"{shown(p)}: cannot read ({getattr(e, 'strerror', None) or e})"))
             continue
         if not stat.S_ISDIR(st.st_mode):
             add(p, st)
             continue
         folders = {(st.st_dev, st.st_ino)}
-
-        def failed(e: OSError) -> None:
-            where = e.filename or str(p)
-            errors.append((str(where), f"{where}: cannot open folder ({e.strerror or e})"))
-
-        found = []
-        for root, dirs, names in os.walk(p, onerror=failed, followlinks=True):
-            keep = []
-            for d in sorted(dirs):
-                if d.startswith("."):
+        found, too_deep = [], False
+        stack = [(str(p), 0)]
+        while stack:
+            root, depth = stack.pop()
+            try:
+                with os.scandir(root) as it:
+                    entries = list(it)
+            except OSError as e:
+                errors.append((root, f"{shown(root)}: cannot open folder ({e.strerror or e})"))
+                continue
+            for entry in entries:
+                name = entry.name
+                if name.startswith("."):
                     continue
+                full = os.path.join(root, name)
                 try:
-                    ds = os.stat(os.path.join(root, d))
+                    es = os.stat(full)
                 except OSError as e:
-                    failed(e)
+                    if os.path.splitext(name)[1].lower() in IMAGE_EXTENSIONS or entry.is_dir(follow_symlinks=False):
+                        errors.append((full, f"{shown(full)}: cannot read ({e.strerror or e})"))
                     continue
-                if (ds.st_dev, ds.st_ino) not in folders:
-                    folders.add((ds.st_dev, ds.st_ino))
-                    keep.append(d)
-            dirs[:] = keep
-            for name in names:
-                if name.startswith(".") or os.path.splitext(name)[1].lower() not in IMAGE_EXTENSIONS:
-                    continue
-                f = Path(root) / name
-                try:
-                    found.append((f, f.stat()))
-                except OSError as e:
-                    errors.append((str(f), f"{f}: cannot read ({e.strerror or e})"))
+                if stat.S_ISDIR(es.st_mode):
+                    if (es.st_dev, es.st_ino) in folders:
+                        continue
+                    folders.add((es.st_dev, es.st_ino))
+                    if depth + 1 > max_depth:
+                        too_deep = True
+                        continue
+                    stack.append((full, depth + 1))
+                elif os.path.splitext(name)[1].lower() in IMAGE_EXTENSIONS:
+                    found.append((Path(full), es))
+        if too_deep:
+            errors.append((str(p), f"{shown(p)}: folders nested more than {max_depth} deep; "
+                                   "the deeper ones were not read"))
         for f, fs in sorted(found, key=lambda t: str(t[0])):
             add(f, fs)
     return files, errors

@@ -25,17 +25,18 @@ from pathlib import Path
 
 import numpy as np
 
+from ..config import LIMITS
 from ..errors import ReadError
 from ..terms import RASTER_EXTENSIONS
 from .extract import ColorCounts, extract
 from .files import file_size
 
 __all__ = ["MAX_PIXELS", "RASTER_EXTENSIONS", "read_counts", "open_image", "open_image_bytes",
-           "counts_from_image", "apply_icc", "read"]
+           "counts_from_image", "apply_icc", "read", "check_end", "unique_inverse", "count_runs"]
 
 #: Images larger than this many pixels are refused before decoding (64 million:
 #: an 8000 x 8000 chart; a 4K export is 8.3 million).
-MAX_PIXELS = 64_000_000
+MAX_PIXELS = LIMITS.image_pixels
 _FORMATS = ["PNG", "JPEG", "WEBP", "GIF", "BMP", "TIFF"]
 _DIRECT = ("RGBA", "RGBX", "CMYK")
 #: Pixels in horizontal runs of at least this many equal neighbours count as flat fill.
@@ -73,36 +74,70 @@ def _uint32_blocks(im, mode: str):
         yield y0, buf
 
 
-def _count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
+def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
     """Distinct values of a 1-D array of packed pixels, how often each occurs, and
     how many of those occurrences sit in flat fill: runs of at least ``flat_run``
     neighbours that are equal, or for ``loose`` > 0 differ by at most ``loose`` in
-    every channel (compression noise). Counted through runs, never per value."""
+    every channel (compression noise). Counted through runs, never per value.
+
+    Each run is one uint64: its value in the high 32 bits, a flat-fill flag in bit
+    31 and its length below; one sort of those groups the runs by value, and sums
+    over the groups give the counts (no argsort, no inverse index)."""
     if values.size == 0:
         return values[:0], np.zeros(0), np.zeros(0)
+    if values.size >= 1 << 31:
+        raise ValueError("block too large")
     starts = np.flatnonzero(values[1:] != values[:-1]) + 1
     starts = np.concatenate(([0], starts))
     lengths = np.diff(np.append(starts, values.size))
-    uniq, inv = np.unique(values[starts], return_inverse=True)
-    inv = inv.ravel()
-    counts = np.bincount(inv, weights=lengths, minlength=len(uniq))
     if not flat_run:
-        return uniq, counts, counts
-    if loose:
-        ch = values.view(np.uint8).reshape(-1, 4).astype(np.int16)
-        cut = np.flatnonzero(np.abs(ch[1:] - ch[:-1]).max(axis=1) > loose) + 1
-        qstarts = np.concatenate(([0], cut))
+        flag = None
+    elif loose:
+        # |a - b| per channel on uint8 without widening: max(a, b) - min(a, b);
+        # a pixel's four "too far" flags read as one uint32
+        ch = values.view(np.uint8).reshape(-1, 4)
+        step = np.maximum(ch[1:], ch[:-1])
+        step -= np.minimum(ch[1:], ch[:-1])
+        far = (step > loose).view(np.uint32).ravel()
+        qstarts = np.concatenate(([0], np.flatnonzero(far) + 1))
         qlen = np.diff(np.append(qstarts, values.size))
-        run_len = qlen[np.searchsorted(qstarts, starts, side="right") - 1]
+        flag = qlen[np.searchsorted(qstarts, starts, side="right") - 1] >= flat_run
     else:
-        run_len = lengths
-    flat = np.bincount(inv, weights=np.where(run_len >= flat_run, lengths, 0), minlength=len(uniq))
-    return uniq, counts, flat
+        flag = lengths >= flat_run
+    key = values[starts].astype(np.uint64) << np.uint64(32)
+    key |= lengths.astype(np.uint64)
+    if flag is not None:
+        key |= flag.astype(np.uint64) << np.uint64(31)
+    key.sort()
+    vals = (key >> np.uint64(32)).astype(values.dtype)
+    first = np.empty(vals.size, dtype=bool)
+    first[0] = True
+    np.not_equal(vals[1:], vals[:-1], out=first[1:])
+    bounds = np.flatnonzero(first)
+    run = (key & np.uint64(0x7FFFFFFF)).astype(np.int64)
+    counts = np.add.reduceat(run, bounds).astype(float)
+    if flag is None:
+        return vals[bounds], counts, counts
+    run[(key & np.uint64(1 << 31)) == 0] = 0
+    return vals[bounds], counts, np.add.reduceat(run, bounds).astype(float)
+
+
+def unique_inverse(x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """``np.unique(x, return_inverse=True)`` for a 1-D integer array, through a
+    plain sort and a binary search (argsort, which np.unique uses, is slower)."""
+    if x.size == 0:
+        return x[:0], np.zeros(0, dtype=np.intp)
+    s = np.sort(x)
+    keep = np.empty(s.size, dtype=bool)
+    keep[0] = True
+    np.not_equal(s[1:], s[:-1], out=keep[1:])
+    uniq = s[keep]
+    return uniq, np.searchsorted(uniq, x)
 
 
 def _merge(parts):
     vals = np.concatenate([p[0] for p in parts])
-    uniq, inv = np.unique(vals, return_inverse=True)
+    uniq, inv = unique_inverse(vals)
     return (uniq, *(np.bincount(inv.ravel(), weights=np.concatenate([p[k] for p in parts]),
                                 minlength=len(uniq)) for k in (1, 2)))
 
@@ -121,11 +156,11 @@ def _count_uint32(im, mode: str, lossy: bool = False):
     parts, border = [], []
     for y0, block in _uint32_blocks(im, mode):
         n = block.shape[0]
-        parts.append(_count_runs(block.ravel(), FLAT_RUN, LOSSY_STEP if lossy else 0))
+        parts.append(count_runs(block.ravel(), FLAT_RUN, LOSSY_STEP if lossy else 0))
         if y0 < width or y0 + n > h - width:
-            border.append(_count_runs(np.sort(block[_border_mask(h, w, y0, n, width)])))
+            border.append(count_runs(np.sort(block[_border_mask(h, w, y0, n, width)])))
         else:
-            border.append(_count_runs(np.sort(np.concatenate([block[:, :width].ravel(),
+            border.append(count_runs(np.sort(np.concatenate([block[:, :width].ravel(),
                                                               block[:, w - width:].ravel()]))))
     vals, cnts, flat = _merge(parts)
     bvals, bcnts, _ = _merge(border)
@@ -183,9 +218,9 @@ def apply_icc(strip, icc: bytes, notes: list):
 
 
 def open_image(path: Path, max_pixels: int = MAX_PIXELS):
-    """Open a file (header only) with its size checked; raises ReadError."""
-    file_size(path)
-    return _open(path, path, max_pixels)
+    """Open a file (header only) with its kind, size and header checked; raises ReadError."""
+    size = file_size(path, "an image", LIMITS.image_file_bytes)
+    return _open(path, path, max_pixels, size)
 
 
 def open_image_bytes(data: bytes, label, max_pixels: int = MAX_PIXELS):
@@ -194,10 +229,34 @@ def open_image_bytes(data: bytes, label, max_pixels: int = MAX_PIXELS):
 
     if not data:
         raise _error(label, "empty image")
-    return _open(io.BytesIO(data), label, max_pixels)
+    return _open(io.BytesIO(data), label, max_pixels, len(data))
 
 
-def _open(source, label, max_pixels: int):
+def _head(source, n: int = 1 << 16) -> bytes:
+    if hasattr(source, "getvalue"):
+        return source.getvalue()[:n]
+    try:
+        with open(source, "rb") as f:
+            return f.read(n)
+    except OSError:
+        return b""
+
+
+def _too_little_data(im, size: int, source) -> bool:
+    """A Huffman-coded JPEG spends at least one bit on every 8x8 luma block (the DC
+    code of each block is at least one bit long: ITU-T T.81, Annex C and F.1.2.1),
+    so a file smaller than blocks / 8 bytes cannot hold the image its header
+    announces; libjpeg would fill the rest with grey without an error."""
+    if im.format != "JPEG":
+        return False
+    w, h = im.size
+    if size * 8 >= -(-w // 8) * -(-h // 8):
+        return False
+    head = _head(source)  # arithmetic coding (SOF9-11, 13-15) can spend less than a bit
+    return not any(bytes((0xFF, m)) in head for m in (0xC9, 0xCA, 0xCB, 0xCD, 0xCE, 0xCF))
+
+
+def _open(source, label, max_pixels: int, size: int | None = None):
     from PIL import Image, UnidentifiedImageError
 
     try:
@@ -221,7 +280,29 @@ def _open(source, label, max_pixels: int):
     if w == 0 or h == 0:
         im.close()
         raise _error(label, "image has no pixels")
+    if size is not None and _too_little_data(im, size, source):
+        im.close()
+        raise _error(label, f"damaged or truncated JPEG: the header announces {w}x{h} pixels, more than "
+                            f"its {size} bytes can hold")
     return im
+
+
+_IEND = b"\x00\x00\x00\x00IEND\xaeB`\x82"
+
+
+def check_end(path: Path, fmt: str) -> None:
+    """A PNG ends with its IEND chunk; without it the file was cut short (Pillow
+    decodes what is there without a word when the cut falls after the pixels)."""
+    if fmt != "PNG":
+        return
+    try:
+        with open(path, "rb") as f:
+            f.seek(-len(_IEND), 2)
+            tail = f.read()
+    except OSError as e:
+        raise _error(path, f"cannot read ({e.strerror or e})") from None
+    if tail != _IEND:
+        raise _error(path, "damaged or truncated PNG: it does not end with its IEND chunk")
 
 
 def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
@@ -229,8 +310,8 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     from PIL import Image
 
     notes = list(notes)
-    if getattr(im, "n_frames", 1) > 1:
-        notes.append(f"{im.n_frames} frames: only the first is read")
+    if getattr(im, "is_animated", False):  # n_frames would walk every frame of a GIF
+        notes.append("animated image: only the first frame is read")
     icc = im.info.get("icc_profile") or None
     im.load()
     if im.mode in ("I;16", "I;16L", "I;16B", "I;16N", "I", "F"):
@@ -261,7 +342,10 @@ def read_counts(path, max_pixels: int = MAX_PIXELS) -> ColorCounts:
     fmt = im.format or ""
     lossy = fmt == "JPEG" or (fmt == "WEBP" and not im.info.get("lossless", False))
     try:
+        check_end(path, fmt)
         return counts_from_image(im, lossy)
+    except ReadError:
+        raise
     except MemoryError:
         raise _error(path, "not enough memory to decode") from None
     except OSError as e:

@@ -15,10 +15,10 @@ import json
 import re
 from pathlib import Path
 
-from ..color import Palette, parse_color
-from ..errors import ColorError, ReadError, json_escapes
+from ..color import Palette
+from ..errors import ReadError, json_escapes
 from . import READERS
-from .css import COMMENT, PROPERTY
+from .css import color_spans
 from .files import MAX_FILE_BYTES
 from .text import parse_line
 
@@ -80,18 +80,8 @@ def _rewrite_text(text: str, old: list[str], new: list[str]) -> str:
 
 
 def _rewrite_css(text: str, old: list[str], new: list[str]) -> str:
-    # Walk the custom properties outside comments in order, as the reader did.
-    spans, pos = [], 0
-    masked = COMMENT.sub(lambda m: " " * len(m.group(0)), text)
-    for m in PROPERTY.finditer(masked):
-        value = m.group(2).strip()
-        bare = value[: -len("!important")].strip() if value.lower().endswith("!important") else value
-        try:
-            parse_color(bare)
-        except ColorError:
-            continue
-        start = m.start(2) + m.group(2).index(bare)
-        spans.append((start, start + len(bare)))
+    # The colour values the reader read, in its order (comments skipped).
+    spans, pos = color_spans(text), 0
     pieces = []
     for (a, b), o, n in zip(spans, old, new):
         pieces.append(text[pos:a])

@@ -427,10 +427,11 @@ def test_undecodable_file_names_and_lone_surrogates(run, tmp_path, charts, bar_c
     assert "n\\udcffx-sheet.png" in res.stdout and (tmp_path / "views" / os.fsdecode(b"n\xffx-sheet.png")).is_file()
     assert run("scan", name).exit_code == 1
     (tmp_path / "s.json").write_text('{"\\ud800 navy": "#1d3b6e", "red\\udfff": "#b8432f", "green": "#4d8a34"}')
-    for fmt in ("text", "json", "markdown", "html"):
+    for fmt in ("text", "json", "markdown", "html"):  # a name that is not text is refused, in one line
         res = run("check", "s.json", "--format", fmt)
-        assert res.exit_code == 1 and "Traceback" not in res.stderr
-    assert run("fix", "s.json").exit_code == 0
+        assert res.exit_code == 2 and "lone surrogate" in res.stderr and len(res.stderr.splitlines()) == 1
+    res = run("fix", "s.json")
+    assert res.exit_code == 2 and "Traceback" not in res.stderr
 
 
 def test_the_sanitiser():
