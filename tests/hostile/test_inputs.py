@@ -381,13 +381,7 @@ def _materialise(folder: Path, name, content):
     return f
 
 
-#: cases whose remaining defect is on the output side of issue 9 (another change)
-_OUTPUT_SIDE = {"non-utf8-name-simulate": "cli echoes the written paths raw; the output side makes printed names safe"}
-
-
-@pytest.mark.parametrize(("case", "name", "content", "args", "expect"),
-                         [pytest.param(*c, marks=pytest.mark.xfail(reason=_OUTPUT_SIDE[c[0]], strict=False))
-                          if c[0] in _OUTPUT_SIDE else c for c in CASES], ids=[c[0] for c in CASES])
+@pytest.mark.parametrize(("case", "name", "content", "args", "expect"), CASES, ids=[c[0] for c in CASES])
 def test_hostile_input(tmp_path, case, name, content, args, expect):
     f = _materialise(tmp_path, name, content) if (content is not None or name) else None
     argv = [a.replace("{f}", str(f)) if f is not None else a for a in args]
