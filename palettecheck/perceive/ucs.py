@@ -11,6 +11,8 @@ References
 - [CIE159] CIE 159:2004, A colour appearance model for colour management systems:
   CIECAM02.
 - [IEC61966] IEC 61966-2-1:1999, sRGB.
+- [CIE15] CIE 15:2004, CIELAB (L*, a*, b*) from XYZ, here relative to the sRGB D65
+  white; the space [Stone2014]'s size model is fitted in.
 
 The conversions themselves are colorspacious's; this module only fixes the viewing
 conditions, caches the converters and keeps every call vectorised.
@@ -34,6 +36,7 @@ __all__ = [
     "srgb1_to_linear",
     "linear_to_srgb1",
     "in_gamut",
+    "to_lab",
 ]
 
 
@@ -109,3 +112,28 @@ def in_gamut(srgb255, tol: float = 1e-6) -> np.ndarray:
     """True where every channel lies in [0, 255] (to ``tol``, in 0-255 units)."""
     c = np.asarray(srgb255, dtype=float)
     return np.all((c >= -tol) & (c <= 255 + tol), axis=-1)
+
+
+def _xyz_from_linear() -> np.ndarray:
+    """Linear sRGB -> XYZ (Y of white = 1) from the primaries and D65 [IEC61966]."""
+    xy = np.array([(0.64, 0.33), (0.30, 0.60), (0.15, 0.06)])
+    prim = np.column_stack([xy[:, 0] / xy[:, 1], np.ones(3), (1 - xy.sum(axis=1)) / xy[:, 1]]).T
+    white = np.array([0.3127 / 0.3290, 1.0, (1 - 0.3127 - 0.3290) / 0.3290])
+    return prim * np.linalg.solve(prim, white)
+
+
+_XYZ_FROM_LINEAR = _xyz_from_linear()
+_WHITE_XYZ = _XYZ_FROM_LINEAR.sum(axis=1)  # the display white, D65
+
+
+def to_lab(srgb255) -> np.ndarray:
+    """CIELAB L*a*b* (D65 white) of sRGB 0-255 colours, shape ``(..., 3)`` [CIE15]."""
+    xyz = srgb1_to_linear(np.asarray(srgb255, dtype=float) / 255.0) @ (_XYZ_FROM_LINEAR / _WHITE_XYZ[:, None]).T
+    eps, kappa = 216 / 24389, 24389 / 27
+    with np.errstate(invalid="ignore"):
+        f = np.where(xyz > eps, np.cbrt(xyz), (kappa * xyz + 16) / 116)
+    lab = np.empty_like(f)
+    lab[..., 0] = 116 * f[..., 1] - 16
+    lab[..., 1] = 500 * (f[..., 0] - f[..., 1])
+    lab[..., 2] = 200 * (f[..., 1] - f[..., 2])
+    return lab
