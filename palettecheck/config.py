@@ -162,6 +162,10 @@ class Settings:
     #: see P_ERROR)
     p_error: float = P_ERROR
     p_warn: float = P_WARN
+    #: ramps: neighbours are seen side by side and in order, so they need only be
+    #: noticeable: the model's own 50 % line (mirrored diverging steps, matched
+    #: across the chart, keep p_error)
+    p_ramp: float = 0.5
     #: what decides a pair: "delta_e" (ΔE' against the mean of [Stone2014]'s three
     #: steps at p = 0.5, the earlier rule; about 85 % noticeable by the model's own
     #: reckoning) or "stone" (the per-axis rule at p_error / p_warn)
@@ -240,10 +244,16 @@ class Settings:
         return tuple(self.severity_grid) if self.severity_sweep else (self.severity,)
 
     @property
+    def p_error_kind(self) -> float:
+        """The error line's p for the kind: ``p_error`` for categories, ``p_ramp``
+        for ramp neighbours."""
+        return self.p_error if self.kind == "categorical" else self.p_ramp
+
+    @property
     def p_warn_kind(self) -> float:
         """The warning line's p: ``p_warn`` for categories matched through a legend;
-        ramp neighbours are read side by side and need only the error line."""
-        return self.p_warn if self.kind == "categorical" else self.p_error
+        ramp neighbours have no warning line apart from the error line."""
+        return self.p_warn if self.kind == "categorical" else self.p_ramp
 
     @property
     def by_delta_e(self) -> bool:
@@ -260,14 +270,14 @@ class Settings:
             return self.min_delta_e
         if self.size_model == "delta_e":
             return sum(noticeable_difference(0.5, self.mark_angle)) / 3.0
-        return self.p_error * sum(self.nd1) / 3.0 * UCS_PER_CIELAB
+        return self.p_error_kind * sum(self.nd1) / 3.0 * UCS_PER_CIELAB
 
     @cached_property
     def warn_delta_e(self) -> float:
         """ΔE' of the warning line (categorical only; for ramps the error line)."""
         if self.by_delta_e:
             return self.error_delta_e * (self.comfort_factor if self.kind == "categorical" else 1.0)
-        return self.error_delta_e * self.p_warn_kind / self.p_error
+        return self.error_delta_e * self.p_warn_kind / self.p_error_kind
 
     @property
     def contrast_needed(self) -> float:
@@ -285,6 +295,8 @@ class Settings:
             raise SettingsError(f"severity must lie in 0-1, not {self.severity}")
         if not self.severity_grid or not all(0.0 <= x <= 1.0 for x in self.severity_grid):
             raise SettingsError(f"severity_grid must be severities in 0-1, not {self.severity_grid}")
+        if not 0.0 < self.p_ramp <= 1.0:
+            raise SettingsError(f"p_ramp must lie in (0, 1], not {self.p_ramp}")
         if not 0.0 < self.p_error <= self.p_warn <= 1.0:
             raise SettingsError(f"p_error and p_warn must satisfy 0 < p_error <= p_warn <= 1, "
                                 f"not {self.p_error}, {self.p_warn}")

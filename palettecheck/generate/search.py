@@ -231,7 +231,7 @@ def search_coordinates(rgb255, settings: Settings, visions) -> tuple[np.ndarray,
     ``error_delta_e / p_error`` (so F = p_error sits at ``error_delta_e``); with
     ``min_delta_e`` it is ΔE' itself."""
     views, ucs, stone = perceive_views(rgb255, settings, visions)
-    coords = ucs if settings.by_delta_e else stone * (settings.error_delta_e / settings.p_error)
+    coords = ucs if settings.by_delta_e else stone * (settings.error_delta_e / settings.p_error_kind)
     return coords, ucs[0]
 
 

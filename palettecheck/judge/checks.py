@@ -177,7 +177,8 @@ def check_arms(p: Perceived) -> list[Finding]:
     if not pairs:
         return []
     I, J = (np.array(x) for x in zip(*pairs))
-    err, _ = p.lines
+    # mirrored steps are matched across the chart, not seen side by side: p_error
+    err = p.lines[0] if s.by_delta_e else s.p_error
     out = []
     for k, low, below in _too_close(p, I, J, p.error_visions, err, err):
         i, j = int(I[k]), int(J[k])

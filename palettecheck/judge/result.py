@@ -61,7 +61,7 @@ class CheckResult:
         fr = {v: np.round(p.fraction[v][I, J], 4) for v in p.visions}
         sev = {v: p.binding[v][I, J] for v in p.visions if v in CVD_VISIONS}
         low_de = np.min([de[v] for v in p.error_visions], axis=0)
-        stone = np.min([p.fraction[v][I, J] for v in p.error_visions], axis=0) / s.p_error
+        stone = np.min([p.fraction[v][I, J] for v in p.error_visions], axis=0) / s.p_error_kind
         ok = np.min([p.measure(v)[I, J] for v in p.error_visions], axis=0) >= err_line
         cols = {v: de[v].tolist() for v in de}
         fcols = {v: fr[v].tolist() for v in fr}
@@ -102,10 +102,10 @@ class CheckResult:
                            "warn_delta_e": round(s.warn_delta_e, 3),
                            "contrast": s.contrast_needed,
                            "size_model": "min_delta_e" if s.min_delta_e is not None else s.size_model,
-                           "p_error": s.p_error, "p_warn": s.p_warn_kind,
+                           "p_error": s.p_error_kind, "p_warn": s.p_warn_kind, "p_arms": s.p_error,
                            "mark_angle": round(s.mark_angle, 4),
                            "mark_angle_asked": round(s.mark_angle_asked, 4),
-                           "noticeable_difference": [round(x * s.p_error, 3) for x in s.nd1]},
+                           "noticeable_difference": [round(x * s.p_error_kind, 3) for x in s.nd1]},
             "viewing": {"Y_b": round(s.viewing.Y_b, 3), "L_A": round(s.viewing.L_A, 3),
                         "surround": s.viewing.surround},
             "pairs": self.pairs(),

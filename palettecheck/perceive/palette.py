@@ -70,7 +70,7 @@ class Perceived:
         s = self.settings
         if s.by_delta_e:
             return s.error_delta_e, s.warn_delta_e
-        return s.p_error, s.p_warn_kind
+        return s.p_error_kind, s.p_warn_kind
 
 
 def measured_visions(settings: Settings) -> tuple[str, ...]:
