@@ -55,13 +55,13 @@ def _pairs(p: Perceived) -> tuple[np.ndarray, np.ndarray]:
     return pair_arrays(len(p.rgb255), p.settings.kind)
 
 
-def _seen(p: Perceived, v: str, i: int, j: int) -> str:
+def _seen(p: Perceived, v: str, i: int, j: int, limit: float | None = None) -> str:
     """How a pair measures under one vision: "deuteranopia (severity 0.6) 62 %, ΔE' 4.1"."""
     label = VISION_LABELS[v]
     if v in p.binding and p.settings.severity_sweep:
         label += f" (severity {p.binding[v][i, j]:g})"
     if p.settings.by_delta_e:
-        return f"{label} ΔE' {_below(float(p.delta[v][i, j]), p.lines[0])}"
+        return f"{label} ΔE' {_below(float(p.delta[v][i, j]), p.lines[0] if limit is None else limit)}"
     return f"{label} {_percent(float(p.fraction[v][i, j]))}, ΔE' {p.delta[v][i, j]:.1f}"
 
 
@@ -115,7 +115,7 @@ def check_distinguishable(p: Perceived) -> list[Finding]:
     out = []
     for k, low, below in _too_close(p, I, J, p.error_visions, err, warn):
         i, j = int(I[k]), int(J[k])
-        where = "; ".join(_seen(p, v, i, j) for v in below)
+        where = "; ".join(_seen(p, v, i, j, err if low < err else warn) for v in below)
         if low < err:
             out.append(Finding(
                 "distinguishable", ERROR,
