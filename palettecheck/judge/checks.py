@@ -81,7 +81,14 @@ def check_duplicates(p: Perceived) -> list[Finding]:
     d = p.delta["normal"]
     I, J = _pairs(p)
     out = []
-    for k in np.flatnonzero(d[I, J] < s.duplicate_delta_e):
+    close = d[I, J]
+    hits = np.flatnonzero(close < s.duplicate_delta_e)
+    more = len(hits) - FINDINGS_LISTED
+    if more > 0:
+        hits = np.sort(hits[np.argpartition(close[hits], FINDINGS_LISTED)[:FINDINGS_LISTED]])
+        out.append(Finding("near-duplicate", INFO, f"near-duplicate: {more} more pairs below the line are not "
+                                                   f"listed (the closest {FINDINGS_LISTED} are)"))
+    for k in hits:
         i, j = int(I[k]), int(J[k])
         out.append(Finding(
             "near-duplicate", ERROR,
@@ -91,18 +98,37 @@ def check_duplicates(p: Perceived) -> list[Finding]:
     return out
 
 
-def _too_close(p: Perceived, I: np.ndarray, J: np.ndarray, visions, err: float, warn: float):
+#: Pair findings listed per check, at most: the closest pairs; the rest are counted
+#: in one note. Each check's deductions are capped at 40 points long before this
+#: many, so the score and the verdict do not change (our choice).
+FINDINGS_LISTED = 200
+
+
+def _too_close(p: Perceived, I: np.ndarray, J: np.ndarray, visions, err: float, warn: float, omitted=None):
     """Selected in numpy before any loop: ``(k, low, below-visions)`` for each pair
-    ``(I[k], J[k])`` whose smallest measure over ``visions`` is under ``warn``."""
+    ``(I[k], J[k])`` whose smallest measure over ``visions`` is under ``warn``, the
+    closest :data:`FINDINGS_LISTED` of them; how many more is appended to ``omitted``."""
     if not len(I) or not visions:
         return []
     m = np.stack([p.measure(v)[I, J] for v in visions])  # (V, P)
     low = m.min(axis=0)
+    hits = np.flatnonzero(low < warn)
+    if len(hits) > FINDINGS_LISTED:
+        if omitted is not None:
+            omitted.append(len(hits) - FINDINGS_LISTED)
+        hits = np.sort(hits[np.argpartition(low[hits], FINDINGS_LISTED)[:FINDINGS_LISTED]])
     out = []
-    for k in np.flatnonzero(low < warn):
+    for k in hits:
         limit = err if low[k] < err else warn
         out.append((int(k), float(low[k]), [v for n, v in enumerate(visions) if m[n, k] < limit]))
     return out
+
+
+def _omitted_note(check: str, omitted: list) -> list[Finding]:
+    if not omitted:
+        return []
+    return [Finding(check, INFO, f"{check}: {omitted[0]} more pairs below the line are not listed "
+                                 f"(the closest {FINDINGS_LISTED} are)")]
 
 
 def check_distinguishable(p: Perceived) -> list[Finding]:
@@ -112,8 +138,8 @@ def check_distinguishable(p: Perceived) -> list[Finding]:
     s = p.settings
     err, warn = p.lines
     I, J = _pairs(p)
-    out = []
-    for k, low, below in _too_close(p, I, J, p.error_visions, err, warn):
+    out, omitted = [], []
+    for k, low, below in _too_close(p, I, J, p.error_visions, err, warn, omitted):
         i, j = int(I[k]), int(J[k])
         where = "; ".join(_seen(p, v, i, j, err if low < err else warn) for v in below)
         if low < err:
@@ -126,7 +152,7 @@ def check_distinguishable(p: Perceived) -> list[Finding]:
                 "distinguishable", WARNING,
                 f"{_name(p, i)} and {_name(p, j)} are close as {s.mark} marks "
                 f"({where}; comfortable from {_needs(p, warn)})", (i, j), _shortfall(low, warn)))
-    return out
+    return out + _omitted_note("distinguishable", omitted)
 
 
 def check_grey(p: Perceived) -> list[Finding]:
@@ -140,8 +166,8 @@ def check_grey(p: Perceived) -> list[Finding]:
     err, _ = p.lines
     greys = tuple(v for v in GREY_VISIONS if v not in p.error_visions)
     I, J = _pairs(p)
-    out = []
-    for k, low, below in _too_close(p, I, J, greys, err, err):
+    out, omitted = [], []
+    for k, low, below in _too_close(p, I, J, greys, err, err, omitted):
         i, j = int(I[k]), int(J[k])
         severity = (ERROR if s.print_safe and GREY_VISION in below
                     else WARNING if GREY_VISION in below else INFO)
@@ -150,7 +176,7 @@ def check_grey(p: Perceived) -> list[Finding]:
             "grey", severity,
             f"{_name(p, i)} and {_name(p, j)} become nearly the same grey ({where}; needs {_needs(p, err)})",
             (i, j), _shortfall(low, err)))
-    return out
+    return out + _omitted_note("grey", omitted)
 
 
 def diverging_arm_pairs(n: int) -> list[tuple[int, int]]:

@@ -15,10 +15,10 @@ from .score import Score, score_findings
 
 __all__ = ["CheckResult", "check_palette", "PAIRS_LISTED"]
 
-#: ``pairs`` lists every compared pair up to this many; above, only the pairs below
-#: the warning line under some measured vision (``pairs_count`` gives the total and
-#: ``pairs_listed`` says which were kept), so a palette of thousands of colours does
-#: not write gigabytes. (Our choice.)
+#: ``pairs`` lists every compared pair up to this many; above, only the closest this
+#: many (smallest measure over every measured vision, in pair order), so a palette of
+#: thousands of colours does not write gigabytes; ``pairs_count`` gives the total and
+#: ``pairs_listed`` says which were kept. (Our choice.)
 PAIRS_LISTED = 5000
 
 
@@ -41,9 +41,8 @@ class CheckResult:
         I, J = pair_arrays(len(p.rgb255), s.kind)
         if len(I) <= PAIRS_LISTED:
             return I, J, True
-        _, warn = p.lines
         low = np.min([p.measure(v)[I, J] for v in p.visions], axis=0)
-        keep = low < warn
+        keep = np.sort(np.argpartition(low, PAIRS_LISTED)[:PAIRS_LISTED])
         return I[keep], J[keep], False
 
     def pairs(self) -> list[dict]:
@@ -110,7 +109,7 @@ class CheckResult:
                         "surround": s.viewing.surround},
             "pairs": self.pairs(),
             "pairs_count": len(pair_arrays(len(self.perceived.rgb255), s.kind)[0]),
-            "pairs_listed": "all" if self.pair_table()[2] else "below the warning line",
+            "pairs_listed": "all" if self.pair_table()[2] else f"the closest {PAIRS_LISTED}",
             "contrast": self.contrast(),
             "findings": [{"check": f.check, "severity": f.severity, "message": f.message,
                           "colors": [self.palette[i].hex for i in f.indices], "indices": list(f.indices)}
