@@ -68,9 +68,23 @@ def _converter(src: str, viewing: Viewing, forward: bool):
     return cspace_converter(src, ucs) if forward else cspace_converter(ucs, src)
 
 
+def _finite_rows(convert, values) -> np.ndarray:
+    """Apply ``convert`` to the rows without NaN or inf; those rows come back NaN
+    (colorspacious itself fails on them with an IndexError)."""
+    x = np.asarray(values, dtype=float)
+    ok = np.all(np.isfinite(x), axis=-1)
+    if ok.all():
+        return convert(x)
+    out = np.full(x.shape, np.nan)
+    if ok.any():
+        out[ok] = convert(x[ok])
+    return out
+
+
 def to_ucs(srgb255, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
-    """CAM02-UCS J'a'b' of sRGB colours on the 0-255 scale, shape ``(..., 3)``."""
-    return _converter("sRGB255", viewing, True)(np.asarray(srgb255, dtype=float))
+    """CAM02-UCS J'a'b' of sRGB colours on the 0-255 scale, shape ``(..., 3)``;
+    rows holding NaN or inf give NaN."""
+    return _finite_rows(_converter("sRGB255", viewing, True), srgb255)
 
 
 def from_ucs(jab, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
@@ -79,7 +93,7 @@ def from_ucs(jab, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
     Points with no colour behind them (J' <= 0, say) come back as NaN, which
     :func:`in_gamut` reports as out of gamut."""
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        return _converter("sRGB255", viewing, False)(np.asarray(jab, dtype=float))
+        return _finite_rows(_converter("sRGB255", viewing, False), jab)
 
 
 def delta_e(jab1, jab2) -> np.ndarray:
