@@ -140,7 +140,7 @@ def bench_large(n: int = 1000, repeats: int = 3) -> None:
     print(f"RATIO check-{n} / numpy-only = {mine / base:.2f}  (target <= 3)")
 
 
-def bench_stone_agreement(n: int = 20_000) -> None:
+def bench_stone_agreement(n: int = 20_000, sigma: float = 8.0) -> None:
     import colour
 
     from palettecheck.config import Settings
@@ -148,7 +148,7 @@ def bench_stone_agreement(n: int = 20_000) -> None:
 
     rng = np.random.default_rng(2024)
     a = rng.integers(0, 256, (n, 3)).astype(float)
-    b = np.clip(np.round(a + rng.normal(0, 8, a.shape)), 0, 255)
+    b = np.clip(np.round(a + rng.normal(0, sigma, a.shape)), 0, 255)
     s = Settings(size_model="stone", visions=("normal",))
     za = perceive_views(a, s, ("normal",))[2][0]
     zb = perceive_views(b, s, ("normal",))[2][0]
@@ -157,7 +157,8 @@ def bench_stone_agreement(n: int = 20_000) -> None:
     nd = s.p_error * (np.array([10.16, 10.68, 10.70]) + np.array([1.50, 3.08, 5.74]) / s.mark_angle)
     theirs_error = np.sqrt((((lab[0] - lab[1]) / nd) ** 2).sum(-1)) < 1
     agree = float(np.mean(ours_error == theirs_error))
-    print(f"Stone rule at p_error {s.p_error} (area, 2 deg), {n} near pairs: {ours_error.sum()} errors; "
+    print(f"Stone rule at p_error {s.p_error} (area, 2 deg), {n} near pairs (sRGB sigma {sigma:g}): "
+          f"{ours_error.sum()} errors, {int((ours_error == theirs_error).sum())} verdicts agree; "
           f"colour-science reference {theirs_error.sum()}")
     print(f"AGREEMENT check error verdict vs Stone 2014 rule = {100 * agree:.2f} %  (target >= 99 %)")
 
@@ -166,4 +167,5 @@ if __name__ == "__main__":
     bench_cli()
     bench_ucs()
     bench_large()
-    bench_stone_agreement()
+    bench_stone_agreement(sigma=8.0)
+    bench_stone_agreement(sigma=20.0)
