@@ -86,8 +86,14 @@ def common_options(f=None, *, formats=("text", "json"), format_help="Output form
                      help="Data scale the colours encode (default categorical)."),
         click.option("--mark", type=click.Choice(MARKS), default=None,
                      help="Mark size: thin lines and small points need larger differences (default area)."),
+        click.option("--mark-size", type=finite(min=0, min_open=True, max=1e5), default=None,
+                     metavar="PX", help="Real mark size in pixels (seen from 60 cm at 96 px/in; clamped to "
+                                        "the size model's fitted 1/3-6 degrees, with a note)."),
+        click.option("--size-model", type=click.Choice(("delta_e", "stone")), default=None,
+                     help="What decides a pair: ΔE' against the mean size step (default), or the "
+                          "per-axis CIELAB rule of Stone et al. 2014."),
         click.option("--severity", type=finite(0, 1), default=None,
-                     help="CVD severity, 0-1 (default 1: dichromacy)."),
+                     help="Pin the CVD severity, 0-1 (default: the worst over 0.1-1.0)."),
         click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
                      help="CVD simulation: Machado et al. 2009 (default) or Brettel et al. 1997, "
                           "the better-founded model for tritanopia."),

@@ -14,7 +14,7 @@ VERSION = "0.1.0"
 
 __all__ = [
     "VERSION", "KINDS", "RAMP_KINDS", "MARKS", "VISIONS", "CVD_VISIONS", "DEFAULT_VISIONS", "GREY_VISION",
-    "VISION_LABELS", "VISION_TITLES", "CVD_MODELS", "SURROUNDS", "ERROR", "WARNING", "INFO",
+    "GREY_VISIONS", "GREY_PRINT_MODELS", "VISION_LABELS", "VISION_TITLES", "CVD_MODELS", "SURROUNDS", "ERROR", "WARNING", "INFO",
     "SEVERITIES", "SEVERITY_TITLES", "REPORT_FORMATS", "REPORT_EXTENSIONS", "GENERATE_FORMATS",
     "GENERATE_EXTENSIONS", "SCAN_EXTENSIONS", "SCAN_FORMATS", "RASTER_EXTENSIONS", "IMAGE_EXTENSIONS", "finding_id",
 ]
@@ -27,20 +27,27 @@ RAMP_KINDS = ("sequential", "diverging")
 MARKS = ("area", "line", "point", "text")
 
 #: Every vision palettecheck simulates, in report order.
-VISIONS = ("normal", "protanopia", "deuteranopia", "tritanopia", "achromatopsia")
+VISIONS = ("normal", "protanopia", "deuteranopia", "tritanopia", "grey-print", "achromatopsia")
 #: The three dichromacies, simulated by one of :data:`CVD_MODELS`.
 CVD_VISIONS = ("protanopia", "deuteranopia", "tritanopia")
 #: The visions a check compares pairs under unless told otherwise.
 DEFAULT_VISIONS = ("normal", *CVD_VISIONS)
-#: The grey view (checked by its own check, ``grey``).
-GREY_VISION = "achromatopsia"
+#: The grey print view (``--print-safe`` makes its merges errors).
+GREY_VISION = "grey-print"
+#: Both grey views, checked by their own check, ``grey``: a grey print (luminance
+#: kept) and rod monochromacy (achromatopsia: scotopic luminance).
+GREY_VISIONS = ("grey-print", "achromatopsia")
+#: Models of the grey print; the first is the default.
+GREY_PRINT_MODELS = ("luminance", "rec601")
 #: A vision's name inside a sentence ("ΔE' deuteranopia 3.3").
 VISION_LABELS = {"normal": "normal vision", "protanopia": "protanopia", "deuteranopia": "deuteranopia",
-                 "tritanopia": "tritanopia", "achromatopsia": "grey (achromatic) view"}
+                 "tritanopia": "tritanopia", "grey-print": "grey print",
+                 "achromatopsia": "achromatopsia (rod vision)"}
 #: A vision's name as a heading (HTML strips, simulated images).
 VISION_TITLES = {"normal": "normal vision (as given)", "protanopia": "protanopia (simulated)",
                  "deuteranopia": "deuteranopia (simulated)", "tritanopia": "tritanopia (simulated)",
-                 "achromatopsia": "grey: a grey print, or no colour vision"}
+                 "grey-print": "grey print (luminance kept)",
+                 "achromatopsia": "achromatopsia: rod vision (simulated)"}
 
 #: CVD simulation methods; the first is the default (Machado et al. 2009, Brettel et al. 1997).
 CVD_MODELS = ("machado", "brettel")

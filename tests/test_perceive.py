@@ -298,3 +298,54 @@ def test_n_dimensional(fn):
     got3 = np.asarray(fn(tiled.reshape(2, 3, 3)))
     np.testing.assert_allclose(got3, got.reshape(got3.shape))
     assert got3.shape[:2] == (2, 3)
+
+
+# --- one shared checker for every colour function ------------------------------------
+# colorspacious's testing.py habit (round trips) and colour-science's four ways
+# (a triple, (6, 3), (2, 3, 3), and NaN passing through without raising).
+
+from palettecheck.perceive import vision as V  # noqa: E402
+
+
+def _colour_functions():
+    fns = {"to_ucs": P.to_ucs, "from_ucs": P.from_ucs, "to_lab": P.to_lab,
+           "relative_luminance": W.relative_luminance,
+           "contrast_ratio": lambda c: W.contrast_ratio(c, [10, 200, 30])}
+    for vision in V.VISIONS:
+        for method in V.CVD_MODELS:
+            fns[f"simulate-{vision}-{method}"] = (lambda c, v=vision, m=method: V.simulate(c, v, 0.6, m))
+    fns["simulate_views"] = lambda c: np.moveaxis(
+        V.simulate_views(c, V.expand_views(V.VISIONS, (0.3, 1.0))), 0, -2)
+    return fns
+
+
+ROUND_TRIPS = {"to_ucs": P.from_ucs}
+
+
+@pytest.mark.parametrize("name", sorted(_colour_functions()))
+def test_every_colour_function_four_ways(name):
+    fn = _colour_functions()[name]
+    one = np.array([173.0, 52.0, 52.0])
+    expected = np.asarray(fn(one))
+    tiled = np.tile(one, (6, 1))
+    got = np.asarray(fn(tiled))
+    assert got.shape[0] == 6
+    np.testing.assert_allclose(got, np.broadcast_to(expected, got.shape), rtol=1e-12, atol=1e-9)
+    got3 = np.asarray(fn(tiled.reshape(2, 3, 3)))
+    np.testing.assert_allclose(got3, got.reshape(got3.shape), rtol=1e-12, atol=1e-9)
+    with np.errstate(all="ignore"):
+        with_nan = np.asarray(fn(np.array([[np.nan, 52.0, 52.0], [173.0, 52.0, 52.0]])))
+    np.testing.assert_allclose(with_nan[1], expected, rtol=1e-12, atol=1e-9)  # a NaN row does not spill over
+    if name in ROUND_TRIPS:
+        np.testing.assert_allclose(ROUND_TRIPS[name](got), tiled, rtol=1e-8, atol=1e-8)
+
+
+def test_to_lab_against_colour_science():
+    """C: colour-science sRGB -> XYZ -> CIELAB (D65); tol 0.05 (measured 0.020, from the
+    libraries' slightly different sRGB matrices)."""
+    import colour
+
+    rgb = _random_srgb255(300)
+    theirs = colour.XYZ_to_Lab(colour.sRGB_to_XYZ(rgb / 255.0))
+    np.testing.assert_allclose(P.to_lab(rgb), theirs, atol=0.05)
+    np.testing.assert_allclose(P.to_lab([255, 255, 255]), [100, 0, 0], atol=1e-9)

@@ -206,10 +206,15 @@ def round_even(rgb: np.ndarray, arms_idx: list[list[int]], viewing) -> np.ndarra
     return out
 
 
-def ramp_metrics(srgb255, kind: str = "sequential", viewing=SRGB_VIEWING) -> dict:
+def ramp_metrics(srgb255, kind: str = "sequential", viewing=None) -> dict:
     """J' monotonic per arm, coefficient of variation of the ΔE' steps per arm (normal
     vision), and gamut, for ``#rrggbb`` strings or an ``(n, 3)`` array on the sRGB
-    0-255 scale (never guessed: multiply 0-1 values by 255 first)."""
+    0-255 scale (never guessed: multiply 0-1 values by 255 first). ``viewing``
+    defaults to the default settings' (a white page)."""
+    if viewing is None:
+        from ..config import Settings
+
+        viewing = Settings().viewing
     if len(srgb255) and isinstance(srgb255[0], str):
         rgb = np.array([parse_color(c)[0] for c in srgb255], dtype=float)
     else:

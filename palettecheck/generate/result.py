@@ -68,7 +68,7 @@ def finish(kind, hexes, settings, locked, recipe, seed=None) -> Generated:
     palette = Palette(tuple(Swatch(h, None, bool(lk)) for h, lk in zip(hexes, locked)), f"generated {kind}")
     result = check_palette(palette, settings)
     p = result.perceived
-    visions = list(settings.visions) + (["achromatopsia"] if settings.print_safe else [])
+    visions = list(settings.visions) + (["grey-print"] if settings.print_safe else [])
     low, worst = np.inf, None
     for i, j in pair_indices(len(hexes), kind):
         for v in visions:

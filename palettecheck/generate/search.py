@@ -43,9 +43,11 @@ import numpy as np
 
 from ..color import parse_color, to_hex
 from ..config import Settings
-from ..perceive.palette import pair_indices, perceive_colors
+from ..perceive.palette import pair_indices, perceive_colors, perceive_views
 from ..perceive.ucs import from_ucs
+from ..perceive.vision import expand_views
 from ..perceive.wcag import contrast_ratio
+from ..terms import GREY_VISION
 
 __all__ = ["Region", "Goal", "Problem", "Solution", "search", "measure", "movement", "pair_mask",
            "candidate_pool", "GRID_LEVELS"]
@@ -194,11 +196,14 @@ class Problem:
             raise ValueError(f"pairs must be ({n}, {n}), not {self.pairs.shape}")
         self.pairs = (self.pairs | self.pairs.T) & ~np.eye(n, dtype=bool)
         s = self.settings
-        self.hard = tuple(dict.fromkeys((*s.visions, *(("achromatopsia",) if s.print_safe else ()))))
-        soft = () if s.print_safe or not (self.goal.grey_weight or self.goal.grey_step) else ("achromatopsia",)
+        self.hard = tuple(dict.fromkeys((*s.visions, *((GREY_VISION,) if s.print_safe else ()))))
+        soft = () if s.print_safe or not (self.goal.grey_weight or self.goal.grey_step) else (GREY_VISION,)
         self.visions = tuple(dict.fromkeys(("normal", *self.hard, *soft)))
-        self.hard_idx = [self.visions.index(v) for v in self.hard]
-        self.grey_idx = self.visions.index("achromatopsia") if soft else None
+        # each deficiency is seen at every judged severity: one view per (vision, severity)
+        self.views = expand_views(self.visions, s.severities)
+        self.view_vision = [v for v, _ in self.views]
+        self.hard_idx = [k for k, v in enumerate(self.view_vision) if v in self.hard]
+        self.grey_idx = self.view_vision.index(GREY_VISION) if soft else None
         self.backgrounds = np.array([parse_color(b)[0] for b in s.backgrounds], dtype=float)
         self.origin_jab = (None if self.origin is None
                            else perceive_colors(np.asarray(self.origin, dtype=float), s, ("normal",))[0])
@@ -212,25 +217,33 @@ class Problem:
         return self.k + self.n_free
 
     def candidates(self, rgb255) -> "Candidates":
-        """Colours (``(..., 3)`` sRGB 0-255) under every vision the search uses."""
+        """Colours (``(..., 3)`` sRGB 0-255) under every view the search uses."""
         rgb = np.asarray(rgb255, dtype=float)
-        u = perceive_colors(rgb, self.settings, self.visions)
+        coords, jab = search_coordinates(rgb, self.settings, self.visions)
         c = contrast_ratio(rgb[..., None, :], self.backgrounds)
-        return Candidates(rgb, u, c)
+        return Candidates(rgb, coords, c, jab)
+
+
+def search_coordinates(rgb255, settings: Settings, visions) -> tuple[np.ndarray, np.ndarray]:
+    """``(coordinates (W, ..., 3), normal-vision J'a'b' (..., 3))``: per view, points
+    whose Euclidean distance is the one ``check`` judges, in ΔE' units at the error
+    line. With the size model that is the noticeable fraction F scaled by
+    ``error_delta_e / p_error`` (so F = p_error sits at ``error_delta_e``); with
+    ``min_delta_e`` it is ΔE' itself."""
+    views, ucs, stone = perceive_views(rgb255, settings, visions)
+    coords = ucs if settings.by_delta_e else stone * (settings.error_delta_e / settings.p_error_kind)
+    return coords, ucs[0]
 
 
 @dataclass
 class Candidates:
     rgb: np.ndarray  #: (..., 3) sRGB 0-255
-    ucs: np.ndarray  #: (V, ..., 3) J'a'b' per vision of the problem (vision 0 is normal)
+    ucs: np.ndarray  #: (W, ..., 3) search coordinates per view of the problem (see search_coordinates)
     contrast: np.ndarray  #: (..., m) WCAG ratio against each background
-
-    @property
-    def jab(self) -> np.ndarray:
-        return self.ucs[0]
+    jab: np.ndarray = None  #: (..., 3) CAM02-UCS J'a'b' under normal vision
 
     def take(self, idx) -> "Candidates":
-        return Candidates(self.rgb[idx], self.ucs[:, idx], self.contrast[idx])
+        return Candidates(self.rgb[idx], self.ucs[:, idx], self.contrast[idx], self.jab[idx])
 
     def __len__(self) -> int:
         return len(self.rgb)
@@ -254,23 +267,28 @@ class Solution:
 
 
 @lru_cache(maxsize=8)
-def _grid_perceived(levels: int, visions: tuple, severity: float, cvd_model: str, viewing):
+def _grid_perceived(levels: int, visions: tuple, settings: Settings):
     v = np.round(np.linspace(0.0, 255.0, levels))
     rgb = np.stack(np.meshgrid(v, v, v, indexing="ij"), axis=-1).reshape(-1, 3)
-    how = Settings(severity=severity, cvd_model=cvd_model, L_A=viewing.L_A, Y_b=viewing.Y_b,
-                   surround=viewing.surround)
-    u = perceive_colors(rgb, how, visions)
+    u, jab = search_coordinates(rgb, settings, visions)
     u.setflags(write=False)
-    return rgb, u
+    jab.setflags(write=False)
+    return rgb, u, jab
 
 
 def candidate_pool(problem: Problem, levels: int = GRID_LEVELS) -> Candidates:
-    """The grid colours the region allows, seen under every vision of the problem."""
+    """The grid colours the region allows, seen under every view of the problem."""
     s = problem.settings
-    rgb, u = _grid_perceived(levels, problem.visions, s.severity, s.cvd_model, s.viewing)
+    # only what the coordinates depend on enters the cache key
+    how = Settings(severity=s.severity, severity_sweep=s.severity_sweep, severity_grid=tuple(s.severity_grid),
+                   cvd_model=s.cvd_model, L_A=s.viewing.L_A, Y_b=s.viewing.Y_b, surround=s.viewing.surround,
+                   mark=s.mark, mark_size=s.mark_size, viewing_distance_cm=s.viewing_distance_cm,
+                   pixels_per_inch=s.pixels_per_inch, p_error=s.p_error, min_delta_e=s.min_delta_e,
+                   grey_print_model=s.grey_print_model)
+    rgb, u, jab = _grid_perceived(levels, problem.visions, how)
     c = contrast_ratio(rgb[:, None, :], problem.backgrounds)
-    keep = problem.region.allows(u[0], c)
-    return Candidates(rgb[keep], u[:, keep], c[keep])
+    keep = problem.region.allows(jab, c)
+    return Candidates(rgb[keep], u[:, keep], c[keep], jab[keep])
 
 
 def _softmin(d: np.ndarray, t: float) -> float:
@@ -314,9 +332,11 @@ class _State:
         return v
 
     def set(self, slot: int, cands: Candidates, c: int):
-        self.current = Candidates(self.current.rgb.copy(), self.current.ucs.copy(), self.current.contrast.copy())
+        self.current = Candidates(self.current.rgb.copy(), self.current.ucs.copy(), self.current.contrast.copy(),
+                                  self.current.jab.copy())
         self.current.rgb[slot] = cands.rgb[c]
         self.current.ucs[:, slot] = cands.ucs[:, c]
+        self.current.jab[slot] = cands.jab[c]
         self.current.contrast[slot] = cands.contrast[c]
         self.refresh()
 
@@ -515,7 +535,7 @@ def _solution(state: _State, evaluations: int) -> Solution:
         i, j = np.unravel_index(np.argmin(d), d.shape)
         u = state.current.ucs
         per_vision = np.linalg.norm(u[p.hard_idx, i] - u[p.hard_idx, j], axis=-1)
-        worst = (int(i), int(j), p.hard[int(np.argmin(per_vision))])
+        worst = (int(i), int(j), p.view_vision[p.hard_idx[int(np.argmin(per_vision))]])
         low = float(d[i, j])
         viol = float(np.maximum(0.0, p.goal.required - state.dh[iu]).sum())
     else:

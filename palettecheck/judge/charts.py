@@ -156,7 +156,8 @@ def _one(path: str, job: _Job):
     """Read and check one file: ``(path, ImageCheck or None, error line or None)``."""
     try:
         fallback = job.backgrounds[0] if job.backgrounds else job.settings.backgrounds[0]
-        reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius)
+        reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius,
+                             viewing=job.settings.viewing)
         return path, check_image(reading, job.settings, kind=job.kind, backgrounds=job.backgrounds,
                                  include_neutrals=job.include_neutrals), None
     except ReadError as e:
@@ -395,6 +396,7 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
     finally:
         im.close()
     fallback = backgrounds[0] if backgrounds else (settings.backgrounds[0] if settings else None)
-    reading = extract(counts, background_rgb(fallback), source=label, min_share=min_share, merge_radius=merge_radius)
+    reading = extract(counts, background_rgb(fallback), source=label, min_share=min_share, merge_radius=merge_radius,
+                      viewing=(settings or Settings()).viewing)
     return check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
                        include_neutrals=include_neutrals)

@@ -1,8 +1,17 @@
 """A palette as every reader sees it: the perceive stage's result.
 
-:func:`perceive_colors` is the one place colours are simulated and measured, for
-checks and searches alike; :func:`perceive_palette` measures a whole palette once
-(CAM02-UCS per vision, ΔE' matrices, WCAG contrast against each background).
+:func:`perceive_views` is the one place colours are simulated and measured, for
+checks and searches alike; :func:`perceive_palette` measures a whole palette once:
+for every vision (each colour-vision deficiency at every judged severity, and both
+grey views), CAM02-UCS J'a'b' and ΔE', CIELAB and the size model's noticeable
+fraction, and WCAG contrast against each background.
+
+The size model [Stone2014]: a pair's per-axis CIELAB differences, each divided by
+the mark's step at p = 1 (``Settings.nd1``), give a distance F. The model's step at
+fraction p is p times the step at 1, so the pair is noticeable at p exactly when
+F >= p: F is the fraction of readers the model says notice the difference, side by
+side (it can exceed 1; the model is linear). A deficiency judged over a severity
+grid keeps, pair by pair, its worst (smallest) F and the severity that gave it.
 """
 
 from __future__ import annotations
@@ -13,51 +22,141 @@ import numpy as np
 
 from ..color import Palette, parse_color
 from ..config import Settings
-from ..terms import GREY_VISION
-from .ucs import pairwise_delta_e, to_ucs
-from .vision import simulate
+from ..terms import CVD_VISIONS, GREY_VISIONS
+from .ucs import to_lab, to_ucs
+from .vision import expand_views, simulate_views
 from .wcag import contrast_ratio
 
-__all__ = ["Perceived", "perceive_colors", "perceive_palette", "pair_indices"]
+__all__ = ["Perceived", "perceive_colors", "perceive_views", "perceive_palette", "pair_indices",
+           "measured_visions", "pairwise", "pair_arrays"]
 
 
 @dataclass
 class Perceived:
-    """A palette as every configured vision sees it, with its backgrounds."""
+    """A palette as every measured vision sees it, with its backgrounds.
+
+    ``visions`` are all measured visions (the settings' visions, then both grey
+    views); ``error_visions`` the ones whose pairs can be errors (the settings').
+    For a deficiency judged over several severities, ``delta`` and ``fraction`` hold
+    each pair's values at its binding (worst) severity, ``binding`` that severity,
+    and ``ucs`` the colours at the last judged severity.
+    """
 
     palette: Palette
     settings: Settings
     rgb255: np.ndarray  #: (n, 3)
-    ucs: dict  #: vision -> (n, 3) CAM02-UCS J'a'b' (always has normal and achromatopsia)
+    ucs: dict  #: vision -> (n, 3) CAM02-UCS J'a'b'
     delta: dict  #: vision -> (n, n) ΔE'
     background_rgb255: np.ndarray  #: (m, 3)
     contrast: np.ndarray = field(default=None)  #: (n, m) WCAG ratio colour vs background
+    fraction: dict = field(default_factory=dict)  #: vision -> (n, n) noticeable fraction F
+    binding: dict = field(default_factory=dict)  #: CVD vision -> (n, n) binding severity
+    background_fraction: dict = field(default_factory=dict)  #: vision -> (n, m) F against each background
+    background_delta: dict = field(default_factory=dict)  #: vision -> (n, m) ΔE' against each background
+    visions: tuple = ()
+    error_visions: tuple = ()
+
+    def measure(self, vision: str) -> np.ndarray:
+        """(n, n) of the figure verdicts use: F, or ΔE' when ``min_delta_e`` is set."""
+        return self.delta[vision] if self.settings.by_delta_e else self.fraction[vision]
+
+    def background_measure(self, vision: str) -> np.ndarray:
+        return (self.background_delta[vision] if self.settings.by_delta_e
+                else self.background_fraction[vision])
+
+    @property
+    def lines(self) -> tuple[float, float]:
+        """(error line, warning line) in the units of :meth:`measure`."""
+        s = self.settings
+        if s.by_delta_e:
+            return s.error_delta_e, s.warn_delta_e
+        return s.p_error_kind, s.p_warn_kind
+
+
+def measured_visions(settings: Settings) -> tuple[str, ...]:
+    """Every vision a check measures: normal, the settings' visions, both grey views."""
+    return tuple(dict.fromkeys(("normal", *settings.visions, *GREY_VISIONS)))
+
+
+def perceive_views(rgb255, settings: Settings, visions):
+    """Colours ``(..., 3)`` sRGB 0-255 as each view sees them (each CVD vision at
+    every judged severity): ``(views, J'a'b' (W, ..., 3), size-model coordinates
+    (W, ..., 3))``. In the size-model coordinates (CIELAB divided by the mark's
+    per-axis step at p = 1) Euclidean distance is the noticeable fraction F."""
+    rgb = np.asarray(rgb255, dtype=float)
+    views = expand_views(visions, settings.severities)
+    sims = simulate_views(rgb, views, settings.cvd_model, settings.grey_print_model)
+    ucs = to_ucs(sims, settings.viewing)
+    stone = to_lab(sims) / np.asarray(settings.nd1)
+    return views, ucs, stone
 
 
 def perceive_colors(rgb255, settings: Settings, visions) -> np.ndarray:
-    """CAM02-UCS J'a'b' of sRGB 0-255 colours ``(..., 3)`` as each vision sees them,
-    with the settings' severity, CVD model and viewing conditions: ``(V, ..., 3)``.
-    The one place colours are simulated and measured, for checks and searches alike."""
-    rgb = np.asarray(rgb255, dtype=float)
-    sims = np.stack([simulate(rgb, v, settings.severity, settings.cvd_model) for v in visions])
-    return to_ucs(sims, settings.viewing)
+    """CAM02-UCS J'a'b' of sRGB 0-255 colours ``(..., 3)`` as each vision sees them
+    (CVD visions at the last judged severity): ``(V, ..., 3)``."""
+    views, ucs, _ = perceive_views(rgb255, settings, visions)
+    last = {v: k for k, (v, _) in enumerate(views)}
+    return ucs[[last[v] for v in visions]]
+
+
+def pairwise(x: np.ndarray, y: np.ndarray | None = None) -> np.ndarray:
+    """Euclidean distances between the rows of ``x`` (n, 3) and of ``y`` (m, 3),
+    axis by axis so that the temporaries stay (n, m)."""
+    y = x if y is None else y
+    d2 = np.zeros((len(x), len(y)))
+    for a in range(x.shape[-1]):
+        diff = x[:, None, a] - y[None, :, a]
+        d2 += diff * diff
+    return np.sqrt(d2)
 
 
 def perceive_palette(palette: Palette, settings: Settings) -> Perceived:
-    """Simulate each vision (plus the grey view) and measure everything once."""
-    rgb = palette.rgb255
-    visions = tuple(dict.fromkeys(("normal", *settings.visions, GREY_VISION)))
-    ucs_all = perceive_colors(rgb, settings, visions)
-    ucs = {v: ucs_all[i] for i, v in enumerate(visions)}
-    delta = {v: pairwise_delta_e(u) for v, u in ucs.items()}
+    """Simulate each vision and measure everything once."""
+    rgb = np.asarray(palette.rgb255, dtype=float).reshape(-1, 3)
+    n = len(rgb)
     bg = np.array([parse_color(b)[0] for b in settings.backgrounds], dtype=float)
-    contrast = contrast_ratio(rgb[:, None, :], bg[None, :, :]) if len(rgb) else np.zeros((0, len(bg)))
-    return Perceived(palette, settings, rgb, ucs, delta, bg, contrast)
+    visions = measured_visions(settings)
+    views, ucs_all, stone_all = perceive_views(np.concatenate([rgb, bg]), settings, visions)
+    by_min_delta = settings.by_delta_e
+    ucs, delta, fraction, binding, bg_fraction, bg_delta = {}, {}, {}, {}, {}, {}
+    for v in visions:
+        ks = [k for k, (w, _) in enumerate(views) if w == v]
+        best_m = best_f = best_d = best_k = None
+        for k in ks:
+            u, z = ucs_all[k], stone_all[k]
+            f, d = pairwise(z[:n]), pairwise(u[:n])
+            m = d if by_min_delta else f
+            if best_m is None:
+                best_m, best_f, best_d, best_k = m, f, d, np.full(m.shape, k)
+            else:
+                better = m < best_m
+                best_m = np.where(better, m, best_m)
+                best_f = np.where(better, f, best_f)
+                best_d = np.where(better, d, best_d)
+                best_k = np.where(better, k, best_k)
+        fraction[v], delta[v] = best_f, best_d
+        if v in CVD_VISIONS:
+            sev = np.array([s for _, s in views])
+            binding[v] = sev[best_k]
+        ucs[v] = ucs_all[ks[-1]][:n]
+        # against the backgrounds, the worst severity colour by colour
+        fb = np.min([pairwise(stone_all[k][:n], stone_all[k][n:]) for k in ks], axis=0)
+        db = np.min([pairwise(ucs_all[k][:n], ucs_all[k][n:]) for k in ks], axis=0)
+        bg_fraction[v], bg_delta[v] = fb, db
+    contrast = contrast_ratio(rgb[:, None, :], bg[None, :, :]) if n else np.zeros((0, len(bg)))
+    return Perceived(palette, settings, rgb, ucs, delta, bg, contrast, fraction, binding, bg_fraction, bg_delta,
+                     visions, tuple(dict.fromkeys(("normal", *settings.visions))))
 
 
 def pair_indices(n: int, kind: str) -> list[tuple[int, int]]:
     """The pairs a kind asks to tell apart: all of them for categorical colours,
     neighbours for ordered ramps (whose far-apart steps differ by construction)."""
+    i, j = pair_arrays(n, kind)
+    return list(zip(i.tolist(), j.tolist()))
+
+
+def pair_arrays(n: int, kind: str) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`pair_indices` as two index arrays (row-major order)."""
     if kind == "categorical":
-        return [(i, j) for i in range(n) for j in range(i + 1, n)]
-    return [(i, i + 1) for i in range(n - 1)]
+        return np.triu_indices(n, 1)
+    return np.arange(max(0, n - 1)), np.arange(1, max(1, n))

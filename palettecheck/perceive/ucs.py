@@ -11,6 +11,8 @@ References
 - [CIE159] CIE 159:2004, A colour appearance model for colour management systems:
   CIECAM02.
 - [IEC61966] IEC 61966-2-1:1999, sRGB.
+- [CIE15] CIE 15:2004, CIELAB (L*, a*, b*) from XYZ, here relative to the sRGB D65
+  white; the space [Stone2014]'s size model is fitted in.
 
 The conversions themselves are colorspacious's; this module only fixes the viewing
 conditions, caches the converters and keeps every call vectorised.
@@ -34,6 +36,7 @@ __all__ = [
     "srgb1_to_linear",
     "linear_to_srgb1",
     "in_gamut",
+    "to_lab",
 ]
 
 
@@ -65,9 +68,23 @@ def _converter(src: str, viewing: Viewing, forward: bool):
     return cspace_converter(src, ucs) if forward else cspace_converter(ucs, src)
 
 
+def _finite_rows(convert, values) -> np.ndarray:
+    """Apply ``convert`` to the rows without NaN or inf; those rows come back NaN
+    (colorspacious itself fails on them with an IndexError)."""
+    x = np.asarray(values, dtype=float)
+    ok = np.all(np.isfinite(x), axis=-1)
+    if ok.all():
+        return convert(x)
+    out = np.full(x.shape, np.nan)
+    if ok.any():
+        out[ok] = convert(x[ok])
+    return out
+
+
 def to_ucs(srgb255, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
-    """CAM02-UCS J'a'b' of sRGB colours on the 0-255 scale, shape ``(..., 3)``."""
-    return _converter("sRGB255", viewing, True)(np.asarray(srgb255, dtype=float))
+    """CAM02-UCS J'a'b' of sRGB colours on the 0-255 scale, shape ``(..., 3)``;
+    rows holding NaN or inf give NaN."""
+    return _finite_rows(_converter("sRGB255", viewing, True), srgb255)
 
 
 def from_ucs(jab, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
@@ -76,7 +93,7 @@ def from_ucs(jab, viewing: Viewing = SRGB_VIEWING) -> np.ndarray:
     Points with no colour behind them (J' <= 0, say) come back as NaN, which
     :func:`in_gamut` reports as out of gamut."""
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        return _converter("sRGB255", viewing, False)(np.asarray(jab, dtype=float))
+        return _finite_rows(_converter("sRGB255", viewing, False), jab)
 
 
 def delta_e(jab1, jab2) -> np.ndarray:
@@ -109,3 +126,28 @@ def in_gamut(srgb255, tol: float = 1e-6) -> np.ndarray:
     """True where every channel lies in [0, 255] (to ``tol``, in 0-255 units)."""
     c = np.asarray(srgb255, dtype=float)
     return np.all((c >= -tol) & (c <= 255 + tol), axis=-1)
+
+
+def _xyz_from_linear() -> np.ndarray:
+    """Linear sRGB -> XYZ (Y of white = 1) from the primaries and D65 [IEC61966]."""
+    xy = np.array([(0.64, 0.33), (0.30, 0.60), (0.15, 0.06)])
+    prim = np.column_stack([xy[:, 0] / xy[:, 1], np.ones(3), (1 - xy.sum(axis=1)) / xy[:, 1]]).T
+    white = np.array([0.3127 / 0.3290, 1.0, (1 - 0.3127 - 0.3290) / 0.3290])
+    return prim * np.linalg.solve(prim, white)
+
+
+_XYZ_FROM_LINEAR = _xyz_from_linear()
+_WHITE_XYZ = _XYZ_FROM_LINEAR.sum(axis=1)  # the display white, D65
+
+
+def to_lab(srgb255) -> np.ndarray:
+    """CIELAB L*a*b* (D65 white) of sRGB 0-255 colours, shape ``(..., 3)`` [CIE15]."""
+    xyz = srgb1_to_linear(np.asarray(srgb255, dtype=float) / 255.0) @ (_XYZ_FROM_LINEAR / _WHITE_XYZ[:, None]).T
+    eps, kappa = 216 / 24389, 24389 / 27
+    with np.errstate(invalid="ignore"):
+        f = np.where(xyz > eps, np.cbrt(xyz), (kappa * xyz + 16) / 116)
+    lab = np.empty_like(f)
+    lab[..., 0] = 116 * f[..., 1] - 16
+    lab[..., 1] = 500 * (f[..., 0] - f[..., 1])
+    lab[..., 2] = 200 * (f[..., 1] - f[..., 2])
+    return lab

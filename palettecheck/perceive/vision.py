@@ -21,7 +21,26 @@ References
 - [CIE1931] CIE 1931 2° standard observer colour-matching functions (CIE 15:2004),
   for the XYZ of the anchor wavelengths.
 - [IEC61966] IEC 61966-2-1:1999 sRGB primaries and D65 white, for XYZ -> linear RGB.
-- [WCAG21] relative luminance, for the achromatic (grey) view.
+- [WCAG21] relative luminance, for the grey print view (the luminance is kept).
+- [Rec601] ITU-R BT.601 luma Y' = 0.299 R' + 0.587 G' + 0.114 B' on the encoded
+  channels: the other grey print model (what many image tools do).
+- [CIE1951] CIE scotopic luminous efficiency V'(lambda) (CIE 1951, tabulated in CIE
+  15:2004), for the achromatopsia (rod vision) view; values as colour-science 0.4.7
+  ships them (secondary).
+- [Brainard1997] Brainard, D. H. (1997) spectra of a typical CRT's phosphors, as
+  colour-science 0.4.7 ships them ("Typical CRT Brainard 1997"): the primaries'
+  spectra. sRGB defines chromaticities, not spectra; its primaries are those of such
+  CRTs (these phosphors sit within 0.02 in xy of the sRGB primaries), so their
+  spectra stand for the sRGB primaries here. That choice is ours.
+
+Achromatopsia (rod monochromacy): the reader sees only the rods' response, the
+scotopic luminance. Each linear sRGB channel contributes its primary's V'-weighted
+power: the CRT phosphor spectra, each scaled so its photopic luminance is sRGB's
+weight for that channel (0.2126, 0.7152, 0.0722), weighted by V'(lambda) and
+normalised so white stays white. The weights are tabulated in ``_ROD_WEIGHTS``
+(computed once with colour-science, which the test suite repeats; the run time does
+not use colour-science). Pure red goes nearly black and blue lighter. The result is
+shown as the sRGB grey of that relative luminance.
 
 Every simulated colour is clipped into the sRGB gamut before it is measured: a
 reader's screen cannot show anything else.
@@ -31,12 +50,73 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..terms import CVD_MODELS, CVD_VISIONS, GREY_VISION, VISIONS
+from ..terms import CVD_MODELS, CVD_VISIONS, GREY_VISIONS, VISIONS
 from .ucs import linear_to_srgb1, srgb1_to_linear
 
-__all__ = ["VISIONS", "CVD_VISIONS", "CVD_MODELS", "simulate"]
+__all__ = ["VISIONS", "CVD_VISIONS", "CVD_MODELS", "GREY_VISIONS", "simulate", "simulate_views", "expand_views",
+           "machado_matrix"]
 
 _CVD_TYPE = {"protanopia": "protanomaly", "deuteranopia": "deuteranomaly", "tritanopia": "tritanomaly"}
+
+#: Linear sRGB weights of the rod (scotopic) response, white = 1 [CIE1951], [Brainard1997].
+#: C: colour-science 0.4.7, sum over 380-780 nm in 5 nm steps of V'(lambda) times each
+#: Brainard 1997 CRT primary, scaled to sRGB's photopic luminance weights (see the
+#: module docstring); tests/test_vision.py recomputes them.
+_ROD_WEIGHTS = np.array([0.039044, 0.616245, 0.344711])
+_LUMINANCE_WEIGHTS = np.array([0.2126, 0.7152, 0.0722])  # [WCAG21]
+_REC601_WEIGHTS = np.array([0.299, 0.587, 0.114])  # [Rec601]
+
+
+def machado_matrix(vision: str, severity: float) -> np.ndarray:
+    """[Machado2009]'s linear-sRGB matrix for ``vision`` at ``severity`` (0-1): the
+    published table at multiples of 0.1, linear interpolation between (as
+    colorspacious, whose copy of the table this reads)."""
+    from colorspacious.cvd import machado_et_al_2009_matrix
+
+    return np.asarray(machado_et_al_2009_matrix(_CVD_TYPE[vision], 100.0 * float(severity)), dtype=float)
+
+
+def expand_views(visions, severities) -> list[tuple[str, float]]:
+    """(vision, severity) for each view: the CVD visions once per severity, the
+    others once (severity 0: not used)."""
+    out = []
+    for v in visions:
+        if v in _CVD_TYPE:
+            out += [(v, float(x)) for x in severities]
+        else:
+            out.append((v, 0.0))
+    return out
+
+
+def _grey(rgb255: np.ndarray, vision: str, grey_model: str) -> np.ndarray:
+    if vision == "grey-print" and grey_model == "rec601":
+        y = np.clip(rgb255 @ _REC601_WEIGHTS, 0.0, 255.0)
+        return np.repeat(y[..., None], 3, axis=-1)
+    weights = _ROD_WEIGHTS if vision == "achromatopsia" else _LUMINANCE_WEIGHTS
+    y = srgb1_to_linear(rgb255 / 255.0) @ weights
+    grey = linear_to_srgb1(np.clip(y, 0.0, 1.0)) * 255.0
+    return np.repeat(grey[..., None], 3, axis=-1)
+
+
+def simulate_views(srgb255, views, method: str = "machado", grey_model: str = "luminance") -> np.ndarray:
+    """Every view of :func:`expand_views` at once: ``(V, ..., 3)`` sRGB 0-255, clipped.
+
+    The Machado views share one matrix product over all severities (one einsum),
+    so a sweep costs about as much as one view per severity of plain arithmetic."""
+    rgb = np.asarray(srgb255, dtype=float)
+    out = np.empty((len(views), *rgb.shape))
+    linear = None
+    machado = [k for k, (v, _) in enumerate(views) if v in _CVD_TYPE and method == "machado"]
+    if machado:
+        linear = srgb1_to_linear(rgb / 255.0)
+        mats = np.stack([machado_matrix(*views[k]) for k in machado])  # (M, 3, 3)
+        sim = np.einsum("mij,...j->m...i", mats, linear)
+        out[machado] = linear_to_srgb1(np.clip(sim, 0.0, 1.0)) * 255.0
+    for k, (v, sev) in enumerate(views):
+        if k in machado:
+            continue
+        out[k] = simulate(rgb, v, sev, method, grey_model)
+    return out
 
 # --- [Brettel1997] -------------------------------------------------------------------
 # Linear sRGB -> LMS of [Vienot1999], to the digits coloraide 8.13 quotes
@@ -105,7 +185,8 @@ def _brettel(linear: np.ndarray, vision: str, severity: float) -> np.ndarray:
     return linear + severity * (full - linear)
 
 
-def simulate(srgb255, vision: str, severity: float = 1.0, method: str = "machado") -> np.ndarray:
+def simulate(srgb255, vision: str, severity: float = 1.0, method: str = "machado",
+             grey_model: str = "luminance") -> np.ndarray:
     """Simulate ``vision`` on sRGB 0-255 colours; returns sRGB 0-255 clipped to gamut.
 
     :param vision: one of :data:`VISIONS`.
@@ -114,16 +195,16 @@ def simulate(srgb255, vision: str, severity: float = 1.0, method: str = "machado
     :param method: ``"machado"`` [Machado2009] (default) or ``"brettel"``
         [Brettel1997]. With ``"brettel"`` a severity below 1 interpolates linearly,
         in linear RGB, between the colour and its full dichromat projection.
+    :param grey_model: the grey print's model, ``"luminance"`` [WCAG21] or
+        ``"rec601"`` [Rec601]; achromatopsia is always rod vision [CIE1951].
     """
     if method not in CVD_MODELS:
         raise ValueError(f"unknown simulation method {method!r}; choose from {', '.join(CVD_MODELS)}")
     rgb = np.asarray(srgb255, dtype=float)
     if vision == "normal":
         return rgb.copy()
-    if vision == GREY_VISION:
-        y = srgb1_to_linear(rgb / 255.0) @ np.array([0.2126, 0.7152, 0.0722])
-        grey = linear_to_srgb1(np.clip(y, 0.0, 1.0)) * 255.0
-        return np.repeat(grey[..., None], 3, axis=-1)
+    if vision in GREY_VISIONS:
+        return _grey(rgb, vision, grey_model)
     if vision not in _CVD_TYPE:
         raise ValueError(f"unknown vision {vision!r}; choose from {', '.join(VISIONS)}")
     if not 0.0 <= severity <= 1.0:
@@ -131,8 +212,5 @@ def simulate(srgb255, vision: str, severity: float = 1.0, method: str = "machado
     if method == "brettel":
         linear = _brettel(srgb1_to_linear(rgb / 255.0), vision, float(severity))
         return linear_to_srgb1(np.clip(linear, 0.0, 1.0)) * 255.0
-    from colorspacious import cspace_convert
-
-    space = {"name": "sRGB1+CVD", "cvd_type": _CVD_TYPE[vision], "severity": 100.0 * severity}
-    out = cspace_convert(rgb / 255.0, space, "sRGB1")
-    return np.clip(out, 0.0, 1.0) * 255.0
+    linear = srgb1_to_linear(rgb / 255.0) @ machado_matrix(vision, severity).T
+    return linear_to_srgb1(np.clip(linear, 0.0, 1.0)) * 255.0

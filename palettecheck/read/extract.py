@@ -45,6 +45,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..color import Palette, Swatch, to_hex
+from ..config import SRGB_VIEWING
 from ..perceive.ucs import to_ucs
 from .blends import explain_tints
 from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
@@ -199,7 +200,7 @@ def _composite(rgba: np.ndarray, bg: np.ndarray, *weights):
     return (_unpack(uniq), *(np.bincount(inv.ravel(), weights=w, minlength=len(uniq)) for w in weights))
 
 
-def find_background(counts: ColorCounts, fallback) -> tuple[np.ndarray, str]:
+def find_background(counts: ColorCounts, fallback, viewing=SRGB_VIEWING) -> tuple[np.ndarray, str]:
     """The dominant border colour, or ``fallback`` when the border is transparent."""
     fallback = np.asarray(fallback, dtype=float)
     b, w = counts.border_rgba, counts.border_weights
@@ -210,7 +211,7 @@ def find_background(counts: ColorCounts, fallback) -> tuple[np.ndarray, str]:
         return fallback, "given"
     rgb, cw = _composite(b[opaque], fallback, w[opaque])
     if counts.lossy and len(rgb) > 1:  # noise splits the border colour: take the densest spot
-        jab = to_ucs(rgb)
+        jab = to_ucs(rgb, viewing)
         near = np.sqrt(((jab[:, None, :] - jab[None, :, :]) ** 2).sum(-1)) <= DEFAULT_MERGE_RADIUS
         return rgb[int(np.argmax(near.astype(float) @ cw))], "detected"
     return rgb[int(np.argmax(cw))], "detected"
@@ -354,9 +355,12 @@ def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray,
 
 
 def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, source: str = "",
-            min_share: float = DEFAULT_MIN_SHARE, merge_radius: float = DEFAULT_MERGE_RADIUS) -> ChartColors:
+            min_share: float = DEFAULT_MIN_SHARE, merge_radius: float = DEFAULT_MERGE_RADIUS,
+            viewing=SRGB_VIEWING) -> ChartColors:
     """The data colours, neutrals, background and scale of a chart.
 
+    :param viewing: CIECAM02 conditions of every ΔE' measured here (the check's own,
+        ``Settings.viewing``, so extraction and check agree).
     :param counts: distinct colours from a reader.
     :param fallback_background: sRGB 0-255, used when the border is transparent.
     :param min_share: leave out colours under this fraction of the non-background pixels.
@@ -366,7 +370,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
         raise ValueError(f"merge radius must be positive, not {merge_radius}")
     if not 0 <= min_share < 1:
         raise ValueError(f"minimum share must lie in 0-1, not {min_share}")
-    bg_rgb, bg_from = find_background(counts, fallback_background)
+    bg_rgb, bg_from = find_background(counts, fallback_background, viewing)
     notes = list(counts.notes)
     flat_in = counts.weights if counts.flat is None else counts.flat
     rgb, w, flat = _composite(counts.rgba, bg_rgb, counts.weights, flat_in)
@@ -375,7 +379,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
         rgb, w, flat = np.vstack([rgb, bg_rgb]), np.append(w, 0.0), np.append(flat, 0.0)
         gap = np.append(gap, 0.0)
     bg_i = int(np.argmin(gap))
-    jab = to_ucs(rgb)
+    jab = to_ucs(rgb, viewing)
     total = float(w.sum())
     chroma_all = np.hypot(jab[:, 1], jab[:, 2])
     canvas = None

@@ -26,7 +26,7 @@ def background_rgb(colour) -> tuple:
 
 
 def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
-               merge_radius: float = DEFAULT_MERGE_RADIUS) -> ChartColors:
+               merge_radius: float = DEFAULT_MERGE_RADIUS, viewing=None) -> ChartColors:
     """Read a chart image's colours: data colours with their shares, greys,
     background and scale.
 
@@ -44,8 +44,9 @@ def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
         from .raster import read_counts
     else:
         raise ReadError(f"{path}: not a chart image ({', '.join(IMAGE_EXTENSIONS)})")
+    extra = {} if viewing is None else {"viewing": viewing}  # the check's viewing conditions
     return extract(read_counts(path), background_rgb(background), source=str(path),
-                   min_share=min_share, merge_radius=merge_radius)
+                   min_share=min_share, merge_radius=merge_radius, **extra)
 
 
 def find_images(paths, max_depth: int = LIMITS.folder_depth) -> tuple[list[Path], list[tuple[str, str]]]:
