@@ -148,10 +148,10 @@ def emit(text: str, output: str | None, inputs=(), default_name: str = "report")
 
             raise OutputError(f"stdout: cannot write ({e.strerror or e})") from None
         return
-    from .config import find_pyproject
+    from .config import find_config
     from .report.write import output_path, write_atomic
 
-    config = find_pyproject()  # the settings file read in this run is an input too
+    config = find_config()  # the settings file read in this run is an input too
     path = output_path(output, default_name)
     write_atomic(path, text, [*inputs, *([config] if config else [])])
     click.echo(f"wrote {one_line(path)}", err=True)
@@ -185,9 +185,15 @@ def _about(inputs) -> None:
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(package_name="palettecheck")
 @click.option("--debug", is_flag=True, help="On an internal error, print the traceback too.")
+@click.option("--config", "config_file", type=click.Path(dir_okay=False), default=None, metavar="FILE",
+              help="Settings file to use (palettecheck.toml keys, or a pyproject.toml) instead of the "
+                   "nearest palettecheck.toml or pyproject.toml above the current folder.")
 @click.pass_context
-def cli(ctx, debug) -> None:
+def cli(ctx, debug, config_file) -> None:
     """Check whether a chart's colours can be told apart by every reader."""
+    from . import config
+
+    config.CONFIG_OVERRIDE[0] = config_file
     _RUN["debug"] = debug
     if ctx.invoked_subcommand:
         _RUN["subject"] = ctx.invoked_subcommand
@@ -394,7 +400,7 @@ def _stream_scan(paths, settings, run, cache, client, output):
         for line in lines:
             click.echo(line, nl=False)
     else:
-        from .config import find_pyproject
+        from .config import find_config
         from .report.write import output_path, write_atomic_with
 
         path = output_path(output, "scan.jsonl")
@@ -403,7 +409,7 @@ def _stream_scan(paths, settings, run, cache, client, output):
             with open(tmp, "w", encoding="utf-8") as f:
                 f.writelines(lines)
 
-        config = find_pyproject()
+        config = find_config()
         write_atomic_with(path, save, inputs=[*paths, *map(str, files), *([config] if config else [])])
         click.echo(f"wrote {one_line(path)}", err=True)
     unreadable = bool(errors) or any(item[2] for item in failed)

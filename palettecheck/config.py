@@ -50,7 +50,7 @@ from .terms import (
 
 __all__ = ["Settings", "Limits", "LIMITS", "RANGES", "Range", "coerce_setting", "nesting_depth", "Viewing",
            "SRGB_VIEWING", "MARK_ANGLE", "noticeable_difference", "mark_threshold", "load_settings", "settings_from",
-           "parse_band", "SettingsError", "FITTED_ANGLES", "pixels_to_degrees", "SEVERITY_GRID", "UCS_PER_CIELAB",
+           "parse_band", "SettingsError", "find_config", "CONFIG_NAME", "FITTED_ANGLES", "pixels_to_degrees", "SEVERITY_GRID", "UCS_PER_CIELAB",
            "L_W", "viewing_for_background", "P_ERROR", "P_WARN"]
 
 
@@ -385,6 +385,30 @@ def find_pyproject(start: Path | None = None) -> Path | None:
     return None
 
 
+#: The standalone settings file, for repositories without Python packaging.
+CONFIG_NAME = "palettecheck.toml"
+#: ``--config PATH`` for this run (set by the command line); None: look for a file.
+CONFIG_OVERRIDE: list = [None]
+
+
+def find_config(start: Path | None = None) -> Path | None:
+    """The settings file of this run: ``--config PATH`` when given, else the nearest
+    folder at or above ``start`` (default: cwd) holding a ``palettecheck.toml`` (its
+    keys at the top level) or a ``pyproject.toml`` with a ``[tool.palettecheck]``
+    table; in one folder, ``palettecheck.toml`` wins."""
+    if CONFIG_OVERRIDE[0] is not None:
+        return Path(CONFIG_OVERRIDE[0])
+    here = Path(start or os.getcwd()).resolve()
+    for folder in (here, *here.parents):
+        own = folder / CONFIG_NAME
+        if own.is_file():
+            return own
+        project = folder / "pyproject.toml"
+        if project.is_file():
+            return project
+    return None
+
+
 class Range(NamedTuple):
     """Allowed values of a number: ``lo``/``hi`` (None: unbounded), open or closed."""
 
@@ -534,38 +558,43 @@ def _nesting(text: str) -> int:
 
 
 def load_settings(start: Path | None = None) -> Settings:
-    """Defaults overridden by the nearest ``[tool.palettecheck]`` table.
+    """Defaults overridden by this run's settings file (:func:`find_config`).
 
     Every key is checked against its :class:`Settings` field: the type comes from
     the field's annotation, numbers must be finite and within :data:`RANGES`.
     :raises SettingsError: one line naming the file and the key.
     """
-    path = find_pyproject(start)
+    path = find_config(start)
     if path is None:
         return Settings()
+    if not path.is_file():
+        raise SettingsError(f"{path}: no such settings file")
     doc = _toml(path)
-    tool = doc.get("tool", {})
-    if not isinstance(tool, dict):
-        raise SettingsError(f"{path}: [tool] must be a table, not {type(tool).__name__}")
-    table = tool.get("palettecheck", {})
-    if not isinstance(table, dict):
-        raise SettingsError(f"{path}: [tool.palettecheck] must be a table, not {type(table).__name__}")
+    if path.name == "pyproject.toml":
+        tool = doc.get("tool", {})
+        if not isinstance(tool, dict):
+            raise SettingsError(f"{path}: [tool] must be a table, not {type(tool).__name__}")
+        table, where = tool.get("palettecheck", {}), "[tool.palettecheck] "
+        if not isinstance(table, dict):
+            raise SettingsError(f"{path}: [tool.palettecheck] must be a table, not {type(table).__name__}")
+    else:  # palettecheck.toml, or a file given with --config: the keys at the top level
+        table, where = doc, ""
     known = {f.name for f in fields(Settings)}
     changes = {}
     for key, value in table.items():
         name = key.replace("-", "_")
         if name not in known:
-            raise SettingsError(f"{path}: unknown key [tool.palettecheck] {_shown_value(key)}")
+            raise SettingsError(f"{path}: unknown key {where}{_shown_value(key)}")
         try:
             changes[name] = coerce_setting(name, value)
         except SettingsError as e:
-            raise SettingsError(f"{path}: [tool.palettecheck] {key} {e}") from None
+            raise SettingsError(f"{path}: {where}{key} {e}") from None
     for b in changes.get("backgrounds", ()):
-        _background_hex(b, f"{path}: [tool.palettecheck] backgrounds")
+        _background_hex(b, f"{path}: {where}backgrounds")
     try:
         return dataclasses.replace(Settings(), **changes).validate()
     except (SettingsError, TypeError, ValueError) as e:
-        raise SettingsError(f"{path}: [tool.palettecheck] {e}") from None
+        raise SettingsError(f"{path}: {where}{e}".rstrip()) from None
 
 
 def _background_hex(text: str, where: str) -> str:

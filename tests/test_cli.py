@@ -139,3 +139,23 @@ def test_cvd_model_option_changes_tritanopia(invoke):
     b = json.loads(invoke("check", "#1d3b6e", "#0f7c86", "--format", "json", "--cvd-model", "brettel").stdout)
     assert a["pairs"][0]["delta_e"]["normal"] == b["pairs"][0]["delta_e"]["normal"]
     assert a["pairs"][0]["delta_e"]["tritanopia"] != b["pairs"][0]["delta_e"]["tritanopia"]
+
+
+def test_standalone_settings_file_and_which_wins(invoke, tmp_path):
+    """palettecheck.toml (keys at the top level) serves a repository without Python
+    packaging; next to a pyproject.toml it wins; --config names the file outright."""
+    (tmp_path / "pyproject.toml").write_text('[tool.palettecheck]\nmark = "point"\n')
+    out = json.loads(invoke("check", "#1d3b6e", "#d0621a", "--format", "json").stdout)
+    assert out["mark"] == "point"
+    (tmp_path / "palettecheck.toml").write_text('mark = "line"\nbackgrounds = ["#1b1b1b"]\n')
+    out = json.loads(invoke("check", "#1d3b6e", "#d0621a", "--format", "json").stdout)
+    assert out["mark"] == "line" and out["backgrounds"] == ["#1b1b1b"]
+    (tmp_path / "other.toml").write_text('mark = "text"\n')
+    out = json.loads(invoke("--config", "other.toml", "check", "#1d3b6e", "#d0621a", "--format", "json").stdout)
+    assert out["mark"] == "text"
+    assert json.loads(invoke("check", "#1d3b6e", "#d0621a", "--mark", "area", "--format", "json").stdout)["mark"] == "area"
+    res = invoke("--config", "missing.toml", "check", "#1d3b6e")
+    assert res.exit_code == 2 and "missing.toml: no such settings file" in res.stderr
+    (tmp_path / "palettecheck.toml").write_text('marks = "line"\n')
+    res = invoke("check", "#1d3b6e")
+    assert res.exit_code == 2 and "palettecheck.toml: unknown key 'marks'" in res.stderr
