@@ -26,6 +26,7 @@ if TYPE_CHECKING:  # what editors and type checkers see; at run time each loads 
     from .judge import check_palette as check_palette
     from .judge import scan as scan
     from .read import read_image as read_image
+    from .read import read_image_bytes as read_image_bytes
     from .read import read_source as read_source
     from .read import read_sources as read_sources
 
@@ -39,6 +40,7 @@ _LAZY = {
     "read_source": "read",
     "read_sources": "read",
     "read_image": "read",
+    "read_image_bytes": "read",
     "scan": "judge",
     "check_figure": "judge",
     "generate_palette": "generate",

@@ -85,3 +85,23 @@ def test_engine_options_go_together(invoke, archive):
     assert res.exit_code == 2 and "--scheduler" in res.stderr
     res = invoke("scan", str(archive), "--scheduler", "tcp://127.0.0.1:1")
     assert res.exit_code == 2 and "--engine dask" in res.stderr
+
+
+def test_charts_read_from_memory_agree_with_files(archive):
+    """Objects from storage need no temporary file: bytes and file-like objects."""
+    import io
+
+    from palettecheck.read import read_image
+
+    path = archive / "chart0.png"
+    from_bytes = palettecheck.read_image_bytes(path.read_bytes(), "exports/chart0.png")
+    assert from_bytes.colors == read_image(path).colors and from_bytes.source == "exports/chart0.png"
+    svg = io.BytesIO()
+    draw("pie", "light")[0].savefig(svg, format="svg")
+    assert len(palettecheck.read_image_bytes(svg.getvalue(), "share.svg").colors) == 5
+    objects = [("mem/chart0.png", path.read_bytes()), open(archive / "chart1.png", "rb")]
+    report = palettecheck.scan(objects, jobs=2)
+    objects[1].close()
+    assert sorted(i.path for i in report.images) == sorted(["mem/chart0.png", str(archive / "chart1.png")])
+    bad = palettecheck.scan([("junk.png", b"not an image")], jobs=1)
+    assert len(bad.errors) == 1 and bad.errors[0][0] == "junk.png"

@@ -32,11 +32,11 @@ from ..read.extract import (
     ChartPalette,
     extract,
 )
-from ..read.images import background_rgb, find_images, read_image
+from ..read.images import background_rgb, find_images, read_image, read_image_bytes
 from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "require_colors", "scan", "check_figure",
-           "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks"]
+           "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks", "Blob"]
 
 @dataclass
 class ImageCheck:
@@ -152,12 +152,37 @@ class _Job:
     merge_radius: float
 
 
-def _one(path: str, job: _Job):
-    """Read and check one file: ``(path, ImageCheck or None, error line or None)``."""
+@dataclass(frozen=True)
+class Blob:
+    """A chart held in memory: its name (its extension picks the reader) and bytes."""
+
+    name: str
+    data: bytes
+
+    def __str__(self) -> str:
+        return self.name
+
+
+def _blob(item, k: int) -> Blob:
+    """A file-like object (anything with ``read()``) or a ``(name, bytes)`` pair as a Blob."""
+    if isinstance(item, Blob):
+        return item
+    if isinstance(item, tuple):
+        name, data = item
+        return Blob(str(name), bytes(data))
+    return Blob(str(getattr(item, "name", None) or f"<object {k + 1}>"), bytes(item.read()))
+
+
+def _one(source, job: _Job):
+    """Read and check one file (or :class:`Blob`): ``(path, ImageCheck or None, error line or None)``."""
+    path = str(source)
     try:
         fallback = job.backgrounds[0] if job.backgrounds else job.settings.backgrounds[0]
-        reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius,
-                             viewing=job.settings.viewing)
+        options = dict(min_share=job.min_share, merge_radius=job.merge_radius, viewing=job.settings.viewing)
+        if isinstance(source, Blob):
+            reading = read_image_bytes(source.data, source.name, fallback, **options)
+        else:
+            reading = read_image(path, fallback, **options)
         return path, check_image(reading, job.settings, kind=job.kind, backgrounds=job.backgrounds,
                                  include_neutrals=job.include_neutrals), None
     except ReadError as e:
@@ -211,13 +236,18 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
     :param progress: called as ``progress(done, total)`` after each file.
     :param cache: a :class:`palettecheck.read.cache.ReadingCache`: charts whose bytes
         it has seen are not read again (their colours are checked afresh).
+    :param paths: files and folders; also charts held in memory, as file-like objects
+        (anything with ``read()``; its ``name`` names it) or ``(name, bytes)`` pairs.
     :param client: a ``dask.distributed.Client``: the charts are read and checked on
         its cluster instead of local processes (``jobs`` is then ignored).
     :returns: a :class:`ScanReport`; files that could not be read are in ``errors``.
     """
-    if isinstance(paths, (str, os.PathLike)):
+    if isinstance(paths, (str, os.PathLike)) or hasattr(paths, "read"):
         paths = [paths]
-    files, errors = find_images(paths)
+    paths = list(paths)
+    blobs = [_blob(p, k) for k, p in enumerate(paths) if hasattr(p, "read") or isinstance(p, (tuple, Blob))]
+    files, errors = find_images([p for p in paths if isinstance(p, (str, os.PathLike))])
+    files = [*files, *blobs]
     report = ScanReport(errors=list(errors))
     results = {}
     for n, (path, check, error) in enumerate(iter_checks(files, settings, jobs=jobs, kind=kind,
@@ -251,24 +281,28 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
     job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius)
     todo, keys = [], {}
     fallback = backgrounds[0] if backgrounds else settings.backgrounds[0]
-    for f in map(str, files):
+    for f in files:
+        f = f if isinstance(f, Blob) else str(f)
         if cache is not None:
             try:
+                import hashlib
+
                 from ..read.cache import file_digest
 
-                key = cache.key(file_digest(f), {"min_share": min_share, "merge_radius": merge_radius,
-                                                 "background": fallback})
+                digest = hashlib.sha256(f.data).hexdigest() if isinstance(f, Blob) else file_digest(f)
+                key = cache.key(digest, {"min_share": min_share, "merge_radius": merge_radius,
+                                         "background": fallback})
             except OSError:
                 key = None  # unreadable: _one says why
             reading = cache.get(key) if key else None
             if reading is not None:
                 try:
-                    yield f, check_image(reading, settings, kind=kind, backgrounds=backgrounds,
+                    yield str(f), check_image(reading, settings, kind=kind, backgrounds=backgrounds,
                                          include_neutrals=include_neutrals), None
                 except ReadError as e:
-                    yield f, None, str(e)
+                    yield str(f), None, str(e)
                 continue
-            keys[f] = key
+            keys[str(f)] = key
         todo.append(f)
     if client is not None:
         source = _on_cluster(client, todo, job)
@@ -362,7 +396,7 @@ def _in_pool(files: list[str], job: _Job, jobs: int):
                 try:
                     result = fut.result()
                 except BrokenProcessPool:
-                    result = (f, None, f"{f}: the worker reading it stopped (out of memory?)")
+                    result = (str(f), None, f"{f}: the worker reading it stopped (out of memory?)")
                 nxt = next(queue, None)
                 if nxt is not None:
                     pending[pool.submit(_one, nxt, job)] = nxt

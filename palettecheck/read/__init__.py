@@ -17,10 +17,10 @@ from ..color import WHITE, Palette, looks_like_color, make_palette
 from ..errors import ColorError, ReadError
 from .files import MAX_FILE_BYTES as MAX_FILE_BYTES
 from .files import shown
-from .images import IMAGE_EXTENSIONS, find_images, read_image
+from .images import IMAGE_EXTENSIONS, find_images, read_image, read_image_bytes
 
 __all__ = ["ReadError", "read_source", "read_sources", "READERS", "MAX_FILE_BYTES", "IMAGE_EXTENSIONS",
-           "read_image", "find_images"]
+           "read_image", "read_image_bytes", "find_images"]
 
 
 #: extension -> module in this package with a ``read(path, background) -> Palette``

@@ -13,7 +13,7 @@ from ..terms import IMAGE_EXTENSIONS
 from .extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE, ChartColors, extract
 from .files import shown
 
-__all__ = ["IMAGE_EXTENSIONS", "background_rgb", "read_image", "find_images"]
+__all__ = ["IMAGE_EXTENSIONS", "background_rgb", "read_image", "read_image_bytes", "find_images"]
 
 
 def background_rgb(colour) -> tuple:
@@ -47,6 +47,56 @@ def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
     extra = {} if viewing is None else {"viewing": viewing}  # the check's viewing conditions
     return extract(read_counts(path), background_rgb(background), source=str(path),
                    min_share=min_share, merge_radius=merge_radius, **extra)
+
+
+def read_image_bytes(data: bytes, name: str, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
+                     merge_radius: float = DEFAULT_MERGE_RADIUS, viewing=None) -> ChartColors:
+    """Read a chart held in memory (an object from storage, a download), as
+    :func:`read_image` reads a file. ``name`` says what it is (its extension picks the
+    reader: ``.svg`` or a raster format; the raster formats are also told apart by
+    their bytes) and names it in messages and reports.
+
+    Raster images are decoded from memory. An SVG is parsed from a private temporary
+    copy, removed at once (the SVG reader works on files).
+    :raises palettecheck.errors.ReadError: one line naming ``name`` and the problem.
+    """
+    if not isinstance(data, (bytes, bytearray, memoryview)):
+        raise ReadError(f"{shown(name)}: expected the image's bytes, not {type(data).__name__}")
+    data = bytes(data)
+    if len(data) > LIMITS.image_file_bytes:
+        raise ReadError(f"{shown(name)}: {len(data)} bytes is more than the {LIMITS.image_file_bytes} "
+                        "allowed for an image (Limits.image_file_bytes)")
+    extra = {} if viewing is None else {"viewing": viewing}
+    if str(name).lower().endswith(".svg"):
+        import tempfile
+
+        from .svg import read_counts as svg_counts
+
+        with tempfile.TemporaryDirectory(prefix="palettecheck-") as tmp:
+            copy = Path(tmp) / "chart.svg"
+            copy.write_bytes(data)
+            try:
+                counts = svg_counts(copy)
+            except ReadError as e:
+                raise ReadError(str(e).replace(str(copy), shown(name))) from None
+    else:
+        from .raster import counts_from_image, open_image_bytes
+
+        im = open_image_bytes(data, shown(name))
+        try:
+            fmt = im.format or ""
+            lossy = fmt == "JPEG" or (fmt == "WEBP" and not im.info.get("lossless", False))
+            counts = counts_from_image(im, lossy)
+        except ReadError:
+            raise
+        except MemoryError:
+            raise ReadError(f"{shown(name)}: not enough memory to decode") from None
+        except Exception as e:  # noqa: BLE001 - decoders raise many kinds on corrupt data
+            raise ReadError(f"{shown(name)}: cannot decode ({type(e).__name__}: {e})") from None
+        finally:
+            im.close()
+    return extract(counts, background_rgb(background), source=str(name), min_share=min_share,
+                   merge_radius=merge_radius, **extra)
 
 
 def find_images(paths, max_depth: int = LIMITS.folder_depth) -> tuple[list[Path], list[tuple[str, str]]]:
