@@ -2,7 +2,7 @@
 
 :func:`palettecheck.read.read_image` reads one chart's colours, :func:`scan` reads and checks files
 and folders (in parallel processes), :func:`check_figure` checks a live matplotlib
-Figure by rendering it to memory. All return the objects the command line prints.
+Figure from its artists. All return the objects the command line prints.
 
 An image's own background (found along its border, or an SVG's backdrop; its plot
 panel instead when it has one: a large uniform grey region the marks sit on) is
@@ -16,7 +16,6 @@ refused like an unreadable file (:func:`require_colors`, exit code 2).
 
 from __future__ import annotations
 
-import io
 import os
 from dataclasses import dataclass, field
 
@@ -30,7 +29,6 @@ from ..read.extract import (
     DEFAULT_MIN_SHARE,
     ChartColors,
     ChartPalette,
-    extract,
 )
 from ..read.images import background_rgb, find_images, read_image
 from .result import CheckResult, check_palette
@@ -378,23 +376,19 @@ def _in_pool(files: list[str], job: _Job, jobs: int):
 def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | None = None, backgrounds=(),
                  include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
                  merge_radius: float = DEFAULT_MERGE_RADIUS) -> ImageCheck:
-    """Check a live matplotlib Figure: it is rendered to PNG in memory (nothing is
-    written to disk) and read like an exported chart.
+    """Check a live matplotlib Figure, read from its artists (see
+    :mod:`palettecheck.read.figure`): lines, patches, collections and colour-mapped
+    images give their exact colours, composited over their axes, and their legend
+    labels as the swatch names; artists that cannot be read so are rasterised in
+    memory (nothing is written to disk) and read like an exported chart, and a note
+    says which were which.
 
-    :param dpi: resolution of the rendering (default: the figure's own).
+    :param dpi: the resolution mark sizes (and the rasterised part) are measured at
+        (default: the figure's own).
     """
-    # Pillow's side, loaded when used
-    from ..read.raster import counts_from_image, open_image_bytes
+    from ..read.figure import read_figure
 
-    buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=dpi or fig.dpi)
-    label = "<figure>"
-    im = open_image_bytes(buf.getvalue(), label)
-    try:
-        counts = counts_from_image(im)
-    finally:
-        im.close()
     fallback = backgrounds[0] if backgrounds else (settings.backgrounds[0] if settings else None)
-    reading = extract(counts, background_rgb(fallback), source=label, min_share=min_share, merge_radius=merge_radius)
+    reading = read_figure(fig, background_rgb(fallback), dpi=dpi, min_share=min_share, merge_radius=merge_radius)
     return check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
                        include_neutrals=include_neutrals)

@@ -146,6 +146,11 @@ class ChartColors:
     panels: tuple[str, ...] = ()
     #: greys that cover data-like area (bars, areas): checked as data colours
     grey_data: tuple[tuple[str, float], ...] = ()
+    #: series names, ``(hex, name)``: read from a live figure's labels (none from pixels)
+    names: tuple[tuple[str, str], ...] = ()
+    #: the mark each colour is drawn as, ``(hex, kind, size in pixels)``; kind is one of
+    #: :data:`palettecheck.terms.MARKS`
+    marks: tuple[tuple[str, str, float], ...] = ()
 
     def palette(self, include_neutrals: bool = False) -> "ChartPalette":
         """The colours to check, as a palette: data colours, greys taken as data,
@@ -160,17 +165,32 @@ class ChartColors:
         if self.neutrals and not include_neutrals:
             greys = ", ".join(h for h, _ in self.neutrals)
             notes.append(f"greys taken for text, axes and grid, not checked as data colours: {greys}")
-        swatches = tuple(Swatch(h) for h in dict.fromkeys(hexes))
+        named = dict(self.names)
+        swatches = tuple(Swatch(h, named.get(h)) for h in dict.fromkeys(hexes))
         return ChartPalette(swatches, self.source, tuple(notes), reading=self)
 
+    def mark_of(self, hex_: str) -> tuple[str, float] | None:
+        """``(kind, size in pixels)`` of the mark a colour is drawn as, when known."""
+        for h, kind, size in self.marks:
+            if h == hex_:
+                return kind, size
+        return None
+
     def to_dict(self) -> dict:
+        named = dict(self.names)
+
+        def shares(pairs):
+            return [{"hex": h, "share": round(s, 4), **({"name": named[h]} if h in named else {})}
+                    for h, s in pairs]
+
         return {
             "background": self.background,
             "scale": self.scale,
-            "colors": [{"hex": h, "share": round(s, 4)} for h, s in self.colors],
-            "neutrals": [{"hex": h, "share": round(s, 4)} for h, s in self.neutrals],
+            "colors": shares(self.colors),
+            "neutrals": shares(self.neutrals),
             "panels": list(self.panels),
-            "grey_data": [{"hex": h, "share": round(s, 4)} for h, s in self.grey_data],
+            "grey_data": shares(self.grey_data),
+            "marks": {h: {"kind": k, "size_px": round(float(z), 2)} for h, k, z in self.marks},
         }
 
 
