@@ -204,7 +204,8 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
     from .report import render
 
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
-    result = check_sources(sources, settings, kind=kind, backgrounds=settings.backgrounds if backgrounds else ())
+    result = check_sources(sources, settings, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
+                           mark=options.get("mark"))
     if write_baseline:
         from .judge.baseline import baseline_entries, baseline_text
 
@@ -277,7 +278,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
                                else "--scheduler goes with --engine dask")
     run = dict(jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
                include_neutrals=include_neutrals, min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
-               merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+               merge_radius=merge_radius or DEFAULT_MERGE_RADIUS, mark=options.get("mark"))
     with _scan_resources(cache_path, scheduler) as (cache, client):
         if fmt == "jsonl":
             if baseline or write_baseline:
@@ -514,7 +515,7 @@ def fix_cmd(sources, keep, fmt, output, **options):
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
     if chart is not None:
         palette, settings = prepare(palette, settings, options.get("kind"),
-                                    settings.backgrounds if options.get("backgrounds") else ())
+                                    settings.backgrounds if options.get("backgrounds") else (), options.get("mark"))
     result = repair(palette, settings, keep)
     if chart is not None and getattr(palette, "reading", None) is not None:
         _fix_chart(chart, palette.reading, result, fmt, output)

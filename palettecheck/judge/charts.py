@@ -20,7 +20,7 @@ import os
 from dataclasses import dataclass, field
 
 from ..color import make_palette
-from ..config import Settings
+from ..config import MARK_ANGLE, Settings
 from ..errors import ReadError
 from ..read import read_sources
 from ..read.continuous import ramp_order
@@ -31,9 +31,10 @@ from ..read.extract import (
     ChartPalette,
 )
 from ..read.images import background_rgb, find_images, read_image
+from ..terms import MARKS
 from .result import CheckResult, check_palette
 
-__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "require_colors", "scan", "check_figure",
+__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "chart_mark", "MARK_MIN_SHARE", "require_colors", "scan", "check_figure",
            "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks"]
 
 @dataclass
@@ -80,14 +81,36 @@ class ScanReport:
         }
 
 
-def prepare(palette, settings, kind: str | None = None, backgrounds=()):
+#: A colour is one of the chart's data marks (for choosing the chart's mark) when it
+#: covers at least this share of the data (practical choice, no source: stray
+#: edge colours and legend swatches are well under it, a highlight line over it).
+MARK_MIN_SHARE = 0.02
+
+
+def chart_mark(reading: ChartColors) -> tuple[str, str, float] | None:
+    """The smallest data mark of a chart, ``(kind, hex, size in pixels)``: the kind
+    with the smallest visual angle (:data:`palettecheck.config.MARK_ANGLE`) among
+    the data colours' marks, the thinnest of them on a tie; None when unknown."""
+    shares = dict((*reading.colors, *reading.grey_data))
+    found = [(MARK_ANGLE.get(k, 1.0), z, k, h) for h, k, z in reading.marks
+             if h in shares and shares[h] >= MARK_MIN_SHARE and k in MARKS]
+    if not found:
+        return None
+    _, size, kind, hex_ = min(found)
+    return kind, hex_, size
+
+
+def prepare(palette, settings, kind: str | None = None, backgrounds=(), mark: str | None = None):
     """The palette and settings to check a chart image with.
 
     Backgrounds: the image's own (its plot panel when one was found: the marks sit
     on it, so contrast is measured there), then ``backgrounds`` (the user's).
     Kind: ``kind`` when given, else the scale's (sequential/diverging) for a
     continuous scale, else the settings'. An ordered kind on a categorical reading
-    puts the colours in ramp order. Palettes not read from images pass unchanged.
+    puts the colours in ramp order. Mark: ``mark`` when given (``--mark``), else
+    the settings' when it is not the default (set in ``pyproject.toml``), else the
+    chart's smallest data mark (:func:`chart_mark`), else the default. Palettes
+    not read from images pass unchanged.
     """
     reading = getattr(palette, "reading", None)
     if not isinstance(palette, ChartPalette) or reading is None:
@@ -99,7 +122,14 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
         order = ramp_order(palette.hexes, reading.background)
         palette = ChartPalette(tuple(palette[i] for i in order), palette.source, palette.notes, reading=reading)
-    return palette, settings.updated(backgrounds=bgs, kind=chosen)
+    found = chart_mark(reading)
+    use = mark or (settings.mark if settings.mark != MARKS[0] else None)
+    if use is None and found is not None:
+        use = found[0]
+        note = (f"mark: {found[0]}, the smallest data mark found ({found[1]}, about {found[2]:.1f} px "
+                f"across); --mark overrides")
+        palette = ChartPalette(palette.swatches, palette.source, (*palette.notes, note), reading=reading)
+    return palette, settings.updated(backgrounds=bgs, kind=chosen, mark=use or settings.mark)
 
 
 def require_colors(palette: ChartPalette) -> None:
@@ -120,7 +150,7 @@ def require_colors(palette: ChartPalette) -> None:
 
 
 def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
-                  backgrounds=()) -> CheckResult:
+                  backgrounds=(), mark: str | None = None) -> CheckResult:
     """Read SOURCEs (colours, palette files, chart images) into one palette and check it.
 
     A chart image brings its own background and, for a continuous scale, its kind:
@@ -129,14 +159,14 @@ def check_sources(sources, settings: Settings | None = None, *, kind: str | None
     """
     settings = settings or Settings()
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
-    palette, settings = prepare(palette, settings, kind, backgrounds)
+    palette, settings = prepare(palette, settings, kind, backgrounds, mark)
     return check_palette(palette, settings)
 
 
 def check_image(reading: ChartColors, settings=None, *, kind: str | None = None, backgrounds=(),
-                include_neutrals: bool = False) -> ImageCheck:
-    """Check what was read from one chart."""
-    palette, s = prepare(reading.palette(include_neutrals), settings or Settings(), kind, backgrounds)
+                include_neutrals: bool = False, mark: str | None = None) -> ImageCheck:
+    """Check what was read from one chart (``mark``: the one the user gave, see :func:`prepare`)."""
+    palette, s = prepare(reading.palette(include_neutrals), settings or Settings(), kind, backgrounds, mark)
     return ImageCheck(reading.source, reading, check_palette(palette, s))
 
 
@@ -148,6 +178,7 @@ class _Job:
     include_neutrals: bool
     min_share: float
     merge_radius: float
+    mark: str | None = None
 
 
 def _one(path: str, job: _Job):
@@ -156,7 +187,7 @@ def _one(path: str, job: _Job):
         fallback = job.backgrounds[0] if job.backgrounds else job.settings.backgrounds[0]
         reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius)
         return path, check_image(reading, job.settings, kind=job.kind, backgrounds=job.backgrounds,
-                                 include_neutrals=job.include_neutrals), None
+                                 include_neutrals=job.include_neutrals, mark=job.mark), None
     except ReadError as e:
         return path, None, str(e)
     except MemoryError:
@@ -197,7 +228,8 @@ def capped_jobs(jobs: int | None) -> int:
 
 def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
          include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-         merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None, cache=None, client=None) -> ScanReport:
+         merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None, cache=None, client=None,
+         mark: str | None = None) -> ScanReport:
     """Read and check every chart under ``paths`` (files and folders).
 
     :param jobs: processes to use (default: one per core); 1 works in this process.
@@ -205,6 +237,8 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
         scale's kind for a continuous scale).
     :param backgrounds: extra backgrounds to check against; the first is what
         transparent images are composited over.
+    :param mark: judge every chart as this mark (default: each chart's smallest data
+        mark, unless the settings set one).
     :param progress: called as ``progress(done, total)`` after each file.
     :param cache: a :class:`palettecheck.read.cache.ReadingCache`: charts whose bytes
         it has seen are not read again (their colours are checked afresh).
@@ -221,7 +255,7 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
                                                          backgrounds=backgrounds,
                                                          include_neutrals=include_neutrals,
                                                          min_share=min_share, merge_radius=merge_radius,
-                                                         cache=cache, client=client), 1):
+                                                         cache=cache, client=client, mark=mark), 1):
         results[path] = (check, error)
         if progress:
             progress(n, len(files))
@@ -238,14 +272,14 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
 
 def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
                 include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None):
+                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None, mark: str | None = None):
     """Read and check chart files, yielding ``(path, ImageCheck or None, error or None)``
     for each as it finishes (not in file order), holding only the charts in flight:
     the memory of a scan of millions of charts stays flat when the caller does not
     keep them (``scan --format jsonl``). Arguments as for :func:`scan`."""
     settings = settings or Settings()
     backgrounds = tuple(backgrounds)
-    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius)
+    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius, mark)
     todo, keys = [], {}
     fallback = backgrounds[0] if backgrounds else settings.backgrounds[0]
     for f in map(str, files):
@@ -261,7 +295,7 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
             if reading is not None:
                 try:
                     yield f, check_image(reading, settings, kind=kind, backgrounds=backgrounds,
-                                         include_neutrals=include_neutrals), None
+                                         include_neutrals=include_neutrals, mark=mark), None
                 except ReadError as e:
                     yield f, None, str(e)
                 continue
@@ -375,7 +409,7 @@ def _in_pool(files: list[str], job: _Job, jobs: int):
 
 def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | None = None, backgrounds=(),
                  include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-                 merge_radius: float = DEFAULT_MERGE_RADIUS) -> ImageCheck:
+                 merge_radius: float = DEFAULT_MERGE_RADIUS, mark: str | None = None) -> ImageCheck:
     """Check a live matplotlib Figure, read from its artists (see
     :mod:`palettecheck.read.figure`): lines, patches, collections and colour-mapped
     images give their exact colours, composited over their axes, and their legend
@@ -391,4 +425,4 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
     fallback = backgrounds[0] if backgrounds else (settings.backgrounds[0] if settings else None)
     reading = read_figure(fig, background_rgb(fallback), dpi=dpi, min_share=min_share, merge_radius=merge_radius)
     return check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
-                       include_neutrals=include_neutrals)
+                       include_neutrals=include_neutrals, mark=mark)
