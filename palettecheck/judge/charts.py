@@ -150,7 +150,7 @@ def require_colors(palette: ChartPalette) -> None:
 
 
 def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
-                  backgrounds=(), mark: str | None = None) -> CheckResult:
+                  backgrounds=(), mark: str | None = None, page: int = 1) -> CheckResult:
     """Read SOURCEs (colours, palette files, chart images) into one palette and check it.
 
     A chart image brings its own background and, for a continuous scale, its kind:
@@ -158,7 +158,7 @@ def check_sources(sources, settings: Settings | None = None, *, kind: str | None
     (None and empty when not given); ``settings`` already holds them.
     """
     settings = settings or Settings()
-    palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
+    palette = read_sources(sources, background_rgb(settings.backgrounds[0]), page)
     palette, settings = prepare(palette, settings, kind, backgrounds, mark)
     return check_palette(palette, settings)
 
@@ -179,13 +179,14 @@ class _Job:
     min_share: float
     merge_radius: float
     mark: str | None = None
+    page: int = 1
 
 
 def _one(path: str, job: _Job):
     """Read and check one file: ``(path, ImageCheck or None, error line or None)``."""
     try:
         fallback = job.backgrounds[0] if job.backgrounds else job.settings.backgrounds[0]
-        reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius)
+        reading = read_image(path, fallback, min_share=job.min_share, merge_radius=job.merge_radius, page=job.page)
         return path, check_image(reading, job.settings, kind=job.kind, backgrounds=job.backgrounds,
                                  include_neutrals=job.include_neutrals, mark=job.mark), None
     except ReadError as e:
@@ -229,7 +230,7 @@ def capped_jobs(jobs: int | None) -> int:
 def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
          include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
          merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None, cache=None, client=None,
-         mark: str | None = None) -> ScanReport:
+         mark: str | None = None, page: int = 1) -> ScanReport:
     """Read and check every chart under ``paths`` (files and folders).
 
     :param jobs: processes to use (default: one per core); 1 works in this process.
@@ -239,6 +240,7 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
         transparent images are composited over.
     :param mark: judge every chart as this mark (default: each chart's smallest data
         mark, unless the settings set one).
+    :param page: the page read from PDF charts (from 1).
     :param progress: called as ``progress(done, total)`` after each file.
     :param cache: a :class:`palettecheck.read.cache.ReadingCache`: charts whose bytes
         it has seen are not read again (their colours are checked afresh).
@@ -255,7 +257,8 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
                                                          backgrounds=backgrounds,
                                                          include_neutrals=include_neutrals,
                                                          min_share=min_share, merge_radius=merge_radius,
-                                                         cache=cache, client=client, mark=mark), 1):
+                                                         cache=cache, client=client, mark=mark,
+                                                         page=page), 1):
         results[path] = (check, error)
         if progress:
             progress(n, len(files))
@@ -272,14 +275,15 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
 
 def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
                 include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None, mark: str | None = None):
+                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None, mark: str | None = None,
+                page: int = 1):
     """Read and check chart files, yielding ``(path, ImageCheck or None, error or None)``
     for each as it finishes (not in file order), holding only the charts in flight:
     the memory of a scan of millions of charts stays flat when the caller does not
     keep them (``scan --format jsonl``). Arguments as for :func:`scan`."""
     settings = settings or Settings()
     backgrounds = tuple(backgrounds)
-    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius, mark)
+    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius, mark, page)
     todo, keys = [], {}
     fallback = backgrounds[0] if backgrounds else settings.backgrounds[0]
     for f in map(str, files):
@@ -288,7 +292,7 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
                 from ..read.cache import file_digest
 
                 key = cache.key(file_digest(f), {"min_share": min_share, "merge_radius": merge_radius,
-                                                 "background": fallback})
+                                                 "background": fallback, **({"page": page} if page != 1 else {})})
             except OSError:
                 key = None  # unreadable: _one says why
             reading = cache.get(key) if key else None
