@@ -9,6 +9,7 @@ Targets (issue 3):
 - 200 charts with ``--jobs 2`` run at least 1.7x faster than with ``--jobs 1``;
 - a 1600 x 1000 chart of 1-pixel anti-aliased lines (issue 11) scans in at most 2x
   its Pillow decode (the coverage model of thin lines works on distinct colours).
+- (issue 11) the mark-size estimate's share of that time is printed beside it.
 - (issue 9) scanning a 3840 x 2160 chart JPEG takes at most 2x the time Pillow
   takes to open, decode and convert it (the lossy-image run counter compares
   channels on uint8); the old int16 counter is timed beside it.
@@ -182,6 +183,21 @@ def main() -> None:
         print(f"4K chart PNG ({w}x{h}): Pillow open+decode+RGB {t_pil * 1e3:.0f} ms, "
               f"scan {t_scan * 1e3:.0f} ms")
         print(f"ratio scan / Pillow decode: {t_scan / t_pil:.2f}x (target <= 1.3x)")
+
+        # issue 11: the mark-size estimate (sampled scanline runs relabelled by data colour)
+        from palettecheck.read import marks, raster
+        from palettecheck.read.extract import extract
+
+        counts = raster.read_counts(big)
+        label = np.random.default_rng(0).integers(-1, 6, len(counts.rgba))
+        alpha = np.ones(len(counts.rgba))
+
+        def measure():
+            marks.measure_marks(counts.scanlines, label, alpha, 6, counts.size)
+
+        t_m, t_x = interleaved([measure, lambda: extract(counts)], 9)
+        print(f"mark sizes on the 4K chart: {t_m * 1e3:.1f} ms ({t_m / t_pil:.1%} of the decode), "
+              f"within extract's {t_x * 1e3:.0f} ms; every {counts.scanlines[2]}th row and column sampled")
 
         jpeg = work / "chart-4k.jpg"
         with Image.open(big) as im:

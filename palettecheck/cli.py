@@ -204,9 +204,11 @@ def cli(ctx, debug, config_file) -> None:
 @click.option("--suggest", is_flag=True,
               help="When the palette fails, work out the smallest repair and list it "
                    "(as palettecheck fix does; takes up to a second or two).")
+@click.option("--page", type=click.IntRange(min=1), default=1, show_default=True,
+              help="The page of a PDF chart to read.")
 @baseline_options
 @common_options(formats=REPORT_FORMATS, format_help=REPORT_HELP)
-def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt, output, **options):
+def check_cmd(sources, suggest, page, baseline, write_baseline, backgrounds, kind, fmt, output, **options):
     """Check one palette. SOURCE is a colour (#1f6f8b, rgb(10 20 30), a CSS name), a
     palette file (.txt, .json, .tokens, .css) or a chart image (.png, .jpg, .webp,
     .svg: its data colours, checked against its own background too); several
@@ -216,7 +218,8 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
     from .report import render
 
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
-    result = check_sources(sources, settings, kind=kind, backgrounds=settings.backgrounds if backgrounds else ())
+    result = check_sources(sources, settings, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
+                           mark=options.get("mark"), page=page)
     if write_baseline:
         from .judge.baseline import baseline_entries, baseline_text
 
@@ -259,10 +262,12 @@ def check_cmd(sources, suggest, baseline, write_baseline, backgrounds, kind, fmt
               help="Where charts are read: local processes (--jobs), or a Dask cluster (--scheduler).")
 @click.option("--scheduler", metavar="ADDRESS", default=None,
               help="With --engine dask: the cluster's scheduler address (tcp://host:8786).")
+@click.option("--page", type=click.IntRange(min=1), default=1, show_default=True,
+              help="The page read from PDF charts.")
 @baseline_options
 @common_options(formats=SCAN_FORMATS, format_help=REPORT_HELP[:-2] + "; jsonl streams one chart per line.")
 def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, approved, whole, cache_path, engine,
-             scheduler, baseline, write_baseline, backgrounds, kind, fmt, output, **options):
+             scheduler, page, baseline, write_baseline, backgrounds, kind, fmt, output, **options):
     """Check the colours of every chart image under PATHS.
 
     Reads PNG, JPEG, WebP, GIF, BMP, TIFF and SVG files (folders are walked) and
@@ -289,7 +294,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
                                else "--scheduler goes with --engine dask")
     run = dict(jobs=jobs, kind=kind, backgrounds=settings.backgrounds if backgrounds else (),
                include_neutrals=include_neutrals, min_share=DEFAULT_MIN_SHARE if min_share is None else min_share,
-               merge_radius=merge_radius or DEFAULT_MERGE_RADIUS)
+               merge_radius=merge_radius or DEFAULT_MERGE_RADIUS, mark=options.get("mark"), page=page)
     with _scan_resources(cache_path, scheduler) as (cache, client):
         if fmt == "jsonl":
             if baseline or write_baseline:
@@ -511,8 +516,9 @@ def fix_cmd(sources, keep, fmt, output, **options):
     from .report.write import check_target
 
     settings = _settings(**options)
+    # a PDF chart's colours are repaired as a palette: no preview is drawn from a rendered page
     chart = sources[0] if len(sources) == 1 and os.path.splitext(sources[0])[1].lower() in IMAGE_EXTENSIONS \
-        else None
+        and not sources[0].lower().endswith(".pdf") else None
     # refuse a bad --output before the moves are explained on stderr
     if output is not None:
         from .errors import OutputError
@@ -526,7 +532,7 @@ def fix_cmd(sources, keep, fmt, output, **options):
     palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
     if chart is not None:
         palette, settings = prepare(palette, settings, options.get("kind"),
-                                    settings.backgrounds if options.get("backgrounds") else ())
+                                    settings.backgrounds if options.get("backgrounds") else (), options.get("mark"))
     result = repair(palette, settings, keep)
     if chart is not None and getattr(palette, "reading", None) is not None:
         _fix_chart(chart, palette.reading, result, fmt, output)

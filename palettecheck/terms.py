@@ -77,7 +77,8 @@ GENERATE_FORMATS = tuple(GENERATE_EXTENSIONS)
 
 #: Chart image files that ``scan`` reads: raster formats (Pillow) and SVG.
 RASTER_EXTENSIONS = (".png", ".jpg", ".jpeg", ".jpe", ".webp", ".gif", ".bmp", ".tif", ".tiff")
-IMAGE_EXTENSIONS = (*RASTER_EXTENSIONS, ".svg")
+#: PDF pages are rendered (pypdfium2) and read as raster images.
+IMAGE_EXTENSIONS = (*RASTER_EXTENSIONS, ".svg", ".pdf")
 
 
 def finding_id(check: str, colors, message: str = "") -> str:

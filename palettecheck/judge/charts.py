@@ -2,7 +2,7 @@
 
 :func:`palettecheck.read.read_image` reads one chart's colours, :func:`scan` reads and checks files
 and folders (in parallel processes), :func:`check_figure` checks a live matplotlib
-Figure by rendering it to memory. All return the objects the command line prints.
+Figure from its artists. All return the objects the command line prints.
 
 An image's own background (found along its border, or an SVG's backdrop; its plot
 panel instead when it has one: a large uniform grey region the marks sit on) is
@@ -16,12 +16,11 @@ refused like an unreadable file (:func:`require_colors`, exit code 2).
 
 from __future__ import annotations
 
-import io
 import os
 from dataclasses import dataclass, field
 
 from ..color import make_palette
-from ..config import Settings
+from ..config import MARK_ANGLE, Settings
 from ..errors import ReadError
 from ..read import read_sources
 from ..read.continuous import ramp_order
@@ -30,13 +29,14 @@ from ..read.extract import (
     DEFAULT_MIN_SHARE,
     ChartColors,
     ChartPalette,
-    extract,
 )
 from ..read.images import background_rgb, find_images, read_image, read_image_bytes
+from ..terms import MARKS
 from .result import CheckResult, check_palette
 
-__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "require_colors", "scan", "check_figure",
-           "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks", "Blob"]
+__all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "chart_mark", "MARK_MIN_SHARE", "require_colors",
+           "scan", "check_figure", "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks",
+           "Blob"]
 
 @dataclass
 class ImageCheck:
@@ -82,14 +82,36 @@ class ScanReport:
         }
 
 
-def prepare(palette, settings, kind: str | None = None, backgrounds=()):
+#: A colour is one of the chart's data marks (for choosing the chart's mark) when it
+#: covers at least this share of the data (practical choice, no source: stray
+#: edge colours and legend swatches are well under it, a highlight line over it).
+MARK_MIN_SHARE = 0.02
+
+
+def chart_mark(reading: ChartColors) -> tuple[str, str, float] | None:
+    """The smallest data mark of a chart, ``(kind, hex, size in pixels)``: the kind
+    with the smallest visual angle (:data:`palettecheck.config.MARK_ANGLE`) among
+    the data colours' marks, the thinnest of them on a tie; None when unknown."""
+    shares = dict((*reading.colors, *reading.grey_data))
+    found = [(MARK_ANGLE.get(k, 1.0), z, k, h) for h, k, z in reading.marks
+             if h in shares and shares[h] >= MARK_MIN_SHARE and k in MARKS]
+    if not found:
+        return None
+    _, size, kind, hex_ = min(found)
+    return kind, hex_, size
+
+
+def prepare(palette, settings, kind: str | None = None, backgrounds=(), mark: str | None = None):
     """The palette and settings to check a chart image with.
 
     Backgrounds: the image's own (its plot panel when one was found: the marks sit
     on it, so contrast is measured there), then ``backgrounds`` (the user's).
     Kind: ``kind`` when given, else the scale's (sequential/diverging) for a
     continuous scale, else the settings'. An ordered kind on a categorical reading
-    puts the colours in ramp order. Palettes not read from images pass unchanged.
+    puts the colours in ramp order. Mark: ``mark`` when given (``--mark``), else
+    the settings' when it is not the default (set in ``pyproject.toml``), else the
+    chart's smallest data mark (:func:`chart_mark`), else the default. Palettes
+    not read from images pass unchanged.
     """
     reading = getattr(palette, "reading", None)
     if not isinstance(palette, ChartPalette) or reading is None:
@@ -101,7 +123,14 @@ def prepare(palette, settings, kind: str | None = None, backgrounds=()):
     if chosen != "categorical" and reading.scale == "categorical" and len(palette) > 2:
         order = ramp_order(palette.hexes, reading.background)
         palette = ChartPalette(tuple(palette[i] for i in order), palette.source, palette.notes, reading=reading)
-    return palette, settings.updated(backgrounds=bgs, kind=chosen)
+    found = chart_mark(reading)
+    use = mark or (settings.mark if settings.mark != MARKS[0] else None)
+    if use is None and found is not None:
+        use = found[0]
+        note = (f"mark: {found[0]}, the smallest data mark found ({found[1]}, about {found[2]:.1f} px "
+                f"across); --mark overrides")
+        palette = ChartPalette(palette.swatches, palette.source, (*palette.notes, note), reading=reading)
+    return palette, settings.updated(backgrounds=bgs, kind=chosen, mark=use or settings.mark)
 
 
 def require_colors(palette: ChartPalette) -> None:
@@ -122,7 +151,7 @@ def require_colors(palette: ChartPalette) -> None:
 
 
 def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
-                  backgrounds=()) -> CheckResult:
+                  backgrounds=(), mark: str | None = None, page: int = 1) -> CheckResult:
     """Read SOURCEs (colours, palette files, chart images) into one palette and check it.
 
     A chart image brings its own background and, for a continuous scale, its kind:
@@ -130,15 +159,15 @@ def check_sources(sources, settings: Settings | None = None, *, kind: str | None
     (None and empty when not given); ``settings`` already holds them.
     """
     settings = settings or Settings()
-    palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
-    palette, settings = prepare(palette, settings, kind, backgrounds)
+    palette = read_sources(sources, background_rgb(settings.backgrounds[0]), page)
+    palette, settings = prepare(palette, settings, kind, backgrounds, mark)
     return check_palette(palette, settings)
 
 
 def check_image(reading: ChartColors, settings=None, *, kind: str | None = None, backgrounds=(),
-                include_neutrals: bool = False) -> ImageCheck:
-    """Check what was read from one chart."""
-    palette, s = prepare(reading.palette(include_neutrals), settings or Settings(), kind, backgrounds)
+                include_neutrals: bool = False, mark: str | None = None) -> ImageCheck:
+    """Check what was read from one chart (``mark``: the one the user gave, see :func:`prepare`)."""
+    palette, s = prepare(reading.palette(include_neutrals), settings or Settings(), kind, backgrounds, mark)
     return ImageCheck(reading.source, reading, check_palette(palette, s))
 
 
@@ -150,6 +179,8 @@ class _Job:
     include_neutrals: bool
     min_share: float
     merge_radius: float
+    mark: str | None = None
+    page: int = 1
 
 
 @dataclass(frozen=True)
@@ -182,9 +213,9 @@ def _one(source, job: _Job):
         if isinstance(source, Blob):
             reading = read_image_bytes(source.data, source.name, fallback, **options)
         else:
-            reading = read_image(path, fallback, **options)
+            reading = read_image(path, fallback, page=job.page, **options)
         return path, check_image(reading, job.settings, kind=job.kind, backgrounds=job.backgrounds,
-                                 include_neutrals=job.include_neutrals), None
+                                 include_neutrals=job.include_neutrals, mark=job.mark), None
     except ReadError as e:
         return path, None, str(e)
     except MemoryError:
@@ -225,7 +256,8 @@ def capped_jobs(jobs: int | None) -> int:
 
 def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
          include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-         merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None, cache=None, client=None) -> ScanReport:
+         merge_radius: float = DEFAULT_MERGE_RADIUS, progress=None, cache=None, client=None,
+         mark: str | None = None, page: int = 1) -> ScanReport:
     """Read and check every chart under ``paths`` (files and folders).
 
     :param jobs: processes to use (default: one per core); 1 works in this process.
@@ -233,6 +265,9 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
         scale's kind for a continuous scale).
     :param backgrounds: extra backgrounds to check against; the first is what
         transparent images are composited over.
+    :param mark: judge every chart as this mark (default: each chart's smallest data
+        mark, unless the settings set one).
+    :param page: the page read from PDF charts (from 1).
     :param progress: called as ``progress(done, total)`` after each file.
     :param cache: a :class:`palettecheck.read.cache.ReadingCache`: charts whose bytes
         it has seen are not read again (their colours are checked afresh).
@@ -254,7 +289,8 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
                                                          backgrounds=backgrounds,
                                                          include_neutrals=include_neutrals,
                                                          min_share=min_share, merge_radius=merge_radius,
-                                                         cache=cache, client=client), 1):
+                                                         cache=cache, client=client, mark=mark,
+                                                         page=page), 1):
         results[path] = (check, error)
         if progress:
             progress(n, len(files))
@@ -271,14 +307,15 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
 
 def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
                 include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None):
+                merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None, mark: str | None = None,
+                page: int = 1):
     """Read and check chart files, yielding ``(path, ImageCheck or None, error or None)``
     for each as it finishes (not in file order), holding only the charts in flight:
     the memory of a scan of millions of charts stays flat when the caller does not
     keep them (``scan --format jsonl``). Arguments as for :func:`scan`."""
     settings = settings or Settings()
     backgrounds = tuple(backgrounds)
-    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius)
+    job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius, mark, page)
     todo, keys = [], {}
     fallback = backgrounds[0] if backgrounds else settings.backgrounds[0]
     for f in files:
@@ -291,14 +328,14 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
 
                 digest = hashlib.sha256(f.data).hexdigest() if isinstance(f, Blob) else file_digest(f)
                 key = cache.key(digest, {"min_share": min_share, "merge_radius": merge_radius,
-                                         "background": fallback})
+                                         "background": fallback, **({"page": page} if page != 1 else {})})
             except OSError:
                 key = None  # unreadable: _one says why
             reading = cache.get(key) if key else None
             if reading is not None:
                 try:
                     yield str(f), check_image(reading, settings, kind=kind, backgrounds=backgrounds,
-                                         include_neutrals=include_neutrals), None
+                                              include_neutrals=include_neutrals, mark=mark), None
                 except ReadError as e:
                     yield str(f), None, str(e)
                 continue
@@ -412,25 +449,20 @@ def _in_pool(files: list[str], job: _Job, jobs: int):
 
 def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | None = None, backgrounds=(),
                  include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
-                 merge_radius: float = DEFAULT_MERGE_RADIUS) -> ImageCheck:
-    """Check a live matplotlib Figure: it is rendered to PNG in memory (nothing is
-    written to disk) and read like an exported chart.
+                 merge_radius: float = DEFAULT_MERGE_RADIUS, mark: str | None = None) -> ImageCheck:
+    """Check a live matplotlib Figure, read from its artists (see
+    :mod:`palettecheck.read.figure`): lines, patches, collections and colour-mapped
+    images give their exact colours, composited over their axes, and their legend
+    labels as the swatch names; artists that cannot be read so are rasterised in
+    memory (nothing is written to disk) and read like an exported chart, and a note
+    says which were which.
 
-    :param dpi: resolution of the rendering (default: the figure's own).
+    :param dpi: the resolution mark sizes (and the rasterised part) are measured at
+        (default: the figure's own).
     """
-    # Pillow's side, loaded when used
-    from ..read.raster import counts_from_image, open_image_bytes
+    from ..read.figure import read_figure
 
-    buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=dpi or fig.dpi)
-    label = "<figure>"
-    im = open_image_bytes(buf.getvalue(), label)
-    try:
-        counts = counts_from_image(im)
-    finally:
-        im.close()
     fallback = backgrounds[0] if backgrounds else (settings.backgrounds[0] if settings else None)
-    reading = extract(counts, background_rgb(fallback), source=label, min_share=min_share, merge_radius=merge_radius,
-                      viewing=(settings or Settings()).viewing)
+    reading = read_figure(fig, background_rgb(fallback), dpi=dpi, min_share=min_share, merge_radius=merge_radius)
     return check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
-                       include_neutrals=include_neutrals)
+                       include_neutrals=include_neutrals, mark=mark)

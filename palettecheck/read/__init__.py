@@ -30,8 +30,9 @@ READERS = {
     ".tokens": "jsonfile",
     ".css": "css",
     # chart images: one image = one palette (its data colours; see palettecheck.read.extract)
-    **{ext: "raster" for ext in IMAGE_EXTENSIONS if ext != ".svg"},
+    **{ext: "raster" for ext in IMAGE_EXTENSIONS if ext not in (".svg", ".pdf")},
     ".svg": "svg",
+    ".pdf": "pdf",
 }
 
 def _exists(path: Path) -> tuple[bool, str | None]:
@@ -44,8 +45,9 @@ def _exists(path: Path) -> tuple[bool, str | None]:
         return False, "not a valid file name"
 
 
-def read_source(source: str, background=WHITE) -> Palette:
-    """A palette from one SOURCE: a palette or image file, or a single colour."""
+def read_source(source: str, background=WHITE, page: int = 1) -> Palette:
+    """A palette from one SOURCE: a palette or image file, or a single colour
+    (``page``: the page of a PDF chart, from 1)."""
     path = Path(source)
     ext = path.suffix.lower() if len(source) < 4096 else ""
     exists, why = _exists(path)
@@ -68,7 +70,7 @@ def read_source(source: str, background=WHITE) -> Palette:
                         f"(palette files: {kinds})")
     module = import_module(f".{READERS[ext]}", __name__)
     try:
-        palette = module.read(path, background)
+        palette = module.read(path, background, page=page) if ext == ".pdf" else module.read(path, background)
     except ColorError as e:
         raise ReadError(f"{shown(source)}: {e}") from None
     if len(palette) == 0:
@@ -76,11 +78,11 @@ def read_source(source: str, background=WHITE) -> Palette:
     return palette
 
 
-def read_sources(sources, background=WHITE) -> Palette:
+def read_sources(sources, background=WHITE, page: int = 1) -> Palette:
     """All SOURCEs joined into one palette, in the order given."""
     if not sources:
         raise ReadError("no colours given")
-    palettes = [read_source(s, background) for s in sources]
+    palettes = [read_source(s, background, page) for s in sources]
     out = palettes[0]
     for p in palettes[1:]:
         out = out + p

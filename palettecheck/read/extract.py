@@ -49,6 +49,7 @@ from ..config import SRGB_VIEWING
 from ..perceive.ucs import to_ucs
 from .blends import explain_tints
 from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
+from .marks import measure_marks
 
 __all__ = [
     "ColorCounts",
@@ -121,6 +122,9 @@ class ColorCounts:
     lossy: bool = False
     size: tuple[int, int] | None = None
     notes: tuple[str, ...] = ()
+    #: runs of equal pixels along sampled rows and columns (raster images):
+    #: ``(row runs, column runs, sampling step)``, see :mod:`palettecheck.read.marks`
+    scanlines: tuple | None = None
 
 
 @dataclass(frozen=True)
@@ -147,6 +151,11 @@ class ChartColors:
     panels: tuple[str, ...] = ()
     #: greys that cover data-like area (bars, areas): checked as data colours
     grey_data: tuple[tuple[str, float], ...] = ()
+    #: series names, ``(hex, name)``: read from a live figure's labels (none from pixels)
+    names: tuple[tuple[str, str], ...] = ()
+    #: the mark each colour is drawn as, ``(hex, kind, size in pixels)``; kind is one of
+    #: :data:`palettecheck.terms.MARKS`
+    marks: tuple[tuple[str, str, float], ...] = ()
 
     def palette(self, include_neutrals: bool = False) -> "ChartPalette":
         """The colours to check, as a palette: data colours, greys taken as data,
@@ -161,17 +170,32 @@ class ChartColors:
         if self.neutrals and not include_neutrals:
             greys = ", ".join(h for h, _ in self.neutrals)
             notes.append(f"greys taken for text, axes and grid, not checked as data colours: {greys}")
-        swatches = tuple(Swatch(h) for h in dict.fromkeys(hexes))
+        named = dict(self.names)
+        swatches = tuple(Swatch(h, named.get(h)) for h in dict.fromkeys(hexes))
         return ChartPalette(swatches, self.source, tuple(notes), reading=self)
 
+    def mark_of(self, hex_: str) -> tuple[str, float] | None:
+        """``(kind, size in pixels)`` of the mark a colour is drawn as, when known."""
+        for h, kind, size in self.marks:
+            if h == hex_:
+                return kind, size
+        return None
+
     def to_dict(self) -> dict:
+        named = dict(self.names)
+
+        def shares(pairs):
+            return [{"hex": h, "share": round(s, 4), **({"name": named[h]} if h in named else {})}
+                    for h, s in pairs]
+
         return {
             "background": self.background,
             "scale": self.scale,
-            "colors": [{"hex": h, "share": round(s, 4)} for h, s in self.colors],
-            "neutrals": [{"hex": h, "share": round(s, 4)} for h, s in self.neutrals],
+            "colors": shares(self.colors),
+            "neutrals": shares(self.neutrals),
             "panels": list(self.panels),
-            "grey_data": [{"hex": h, "share": round(s, 4)} for h, s in self.grey_data],
+            "grey_data": shares(self.grey_data),
+            "marks": {h: {"kind": k, "size_px": round(float(z), 2)} for h, k, z in self.marks},
         }
 
 
@@ -191,13 +215,15 @@ def _unpack(packed: np.ndarray) -> np.ndarray:
     return np.stack([(packed >> 16) & 255, (packed >> 8) & 255, packed & 255], axis=-1).astype(float)
 
 
-def _composite(rgba: np.ndarray, bg: np.ndarray, *weights):
-    """Opaque 8-bit colours over ``bg``, equal results merged: ``(rgb, *weights)``."""
+def _composite(rgba: np.ndarray, bg: np.ndarray, *weights, inverse: bool = False):
+    """Opaque 8-bit colours over ``bg``, equal results merged: ``(rgb, *weights)``
+    (and, with ``inverse``, where each input colour went)."""
     a = rgba[:, 3:4] / 255.0
     rgb = np.rint(a * rgba[:, :3] + (1.0 - a) * bg[None, :])
     packed = _pack(np.clip(rgb, 0, 255))
     uniq, inv = np.unique(packed, return_inverse=True)
-    return (_unpack(uniq), *(np.bincount(inv.ravel(), weights=w, minlength=len(uniq)) for w in weights))
+    out = (_unpack(uniq), *(np.bincount(inv.ravel(), weights=w, minlength=len(uniq)) for w in weights))
+    return (*out, inv.ravel()) if inverse else out
 
 
 def find_background(counts: ColorCounts, fallback, viewing=SRGB_VIEWING) -> tuple[np.ndarray, str]:
@@ -373,7 +399,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     bg_rgb, bg_from = find_background(counts, fallback_background, viewing)
     notes = list(counts.notes)
     flat_in = counts.weights if counts.flat is None else counts.flat
-    rgb, w, flat = _composite(counts.rgba, bg_rgb, counts.weights, flat_in)
+    rgb, w, flat, inv = _composite(counts.rgba, bg_rgb, counts.weights, flat_in, inverse=True)
     gap = ((rgb - bg_rgb) ** 2).sum(-1) if len(rgb) else np.zeros(0)
     if not len(gap) or gap.min() > 0.25:  # a page the image never shows (no SVG backdrop)
         rgb, w, flat = np.vstack([rgb, bg_rgb]), np.append(w, 0.0), np.append(flat, 0.0)
@@ -386,12 +412,14 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if counts.exact:
         canvas = float(counts.size[0] * counts.size[1]) if counts.size else np.inf
     panel_i = find_panel(w, flat, chroma_all, bg_i, canvas)
+    tint_of = np.full(len(rgb), -1)
     if not counts.exact and not counts.lossy:  # anti-aliased tints count as coverage of the mark that made them
         for base in ([panel_i] if panel_i is not None else []) + [bg_i]:
-            w, flat, _ = explain_tints(rgb, w, flat, jab, chroma_all, base,
+            w, flat, t = explain_tints(rgb, w, flat, jab, chroma_all, base,
                                        tol=BLEND_TOLERANCE[counts.lossy], radius=merge_radius,
                                        neutral=NEUTRAL_CHROMA, seed_min=max(total * 2e-5, 1e-12),
                                        share_ratio=BLEND_SHARE_RATIO)
+            tint_of = np.where(t >= 0, t, tint_of)
     # compression noise is strongest where most pixels are: around the background
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
     noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
@@ -464,6 +492,28 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in greys if k not in data)
     if not colors and not grey_data:
         notes.append("no data colours found: only the background and greys")
+    data_groups = [k for k in keep if g_chroma[k] >= NEUTRAL_CHROMA] + data
+    marks = _marks(counts, inv, rgb, group, tint_of, g_rgb, data_groups,
+                   g_rgb[panel_g] if panel_g is not None else g_rgb[0])
     return ChartColors(source, background, bg_from, "categorical", colors, neutrals, None,
-                       counts.size, tuple(notes), panels, grey_data)
+                       counts.size, tuple(notes), panels, grey_data, (), marks)
+
+
+def _marks(counts: ColorCounts, inv, rgb, group, tint_of, g_rgb, data_groups, base) -> tuple:
+    """``(hex, kind, size)`` of each data colour, from the raster reader's scanline runs:
+    each distinct colour labelled by the data colour it belongs to (its group, or the
+    mark it is a tint of), weighted by how much of a pixel that mark covers there."""
+    if counts.scanlines is None or not data_groups:
+        return ()
+    slot = np.full(len(g_rgb), -1)
+    slot[np.asarray(data_groups)] = np.arange(len(data_groups))
+    owner = np.where(tint_of >= 0, group[np.maximum(tint_of, 0)], group)
+    label = np.where(owner >= 0, slot[np.maximum(owner, 0)], -1)
+    alpha = np.ones(len(rgb))
+    has = label >= 0
+    top = g_rgb[np.asarray(data_groups)][np.maximum(label, 0)] - base
+    dd = np.maximum((top * top).sum(-1), 1e-9)
+    alpha[has] = np.clip(((rgb[has] - base) * top[has]).sum(-1) / dd[has], 0.0, 1.0)
+    found = measure_marks(counts.scanlines, label[inv], alpha[inv], len(data_groups), counts.size)
+    return tuple((to_hex(g_rgb[g]), *found[k]) for k, g in enumerate(data_groups) if k in found)
 

@@ -26,11 +26,12 @@ def background_rgb(colour) -> tuple:
 
 
 def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
-               merge_radius: float = DEFAULT_MERGE_RADIUS, viewing=None) -> ChartColors:
+               merge_radius: float = DEFAULT_MERGE_RADIUS, viewing=None, page: int = 1) -> ChartColors:
     """Read a chart image's colours: data colours with their shares, greys,
     background and scale.
 
-    :param path: a PNG, JPEG, WebP, GIF, BMP, TIFF or SVG file.
+    :param path: a PNG, JPEG, WebP, GIF, BMP, TIFF, SVG or PDF file.
+    :param page: the page of a PDF to read (from 1; other files have one).
     :param background: what transparent images are composited over (a colour
         string or sRGB 0-255 triple; default white).
     :raises palettecheck.errors.ReadError: one line naming the file and the problem.
@@ -38,13 +39,18 @@ def read_image(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
     path = Path(path)
     ext = path.suffix.lower()
     # each image reader loads only when its kind of file is read (start-up time)
+    extra = {} if viewing is None else {"viewing": viewing}  # the check's viewing conditions
+    if ext == ".pdf":
+        from .pdf import read_counts as read_pdf
+
+        return extract(read_pdf(path, page), background_rgb(background), source=str(path),
+                       min_share=min_share, merge_radius=merge_radius, **extra)
     if ext == ".svg":
         from .svg import read_counts
     elif ext in IMAGE_EXTENSIONS:
         from .raster import read_counts
     else:
         raise ReadError(f"{path}: not a chart image ({', '.join(IMAGE_EXTENSIONS)})")
-    extra = {} if viewing is None else {"viewing": viewing}  # the check's viewing conditions
     return extract(read_counts(path), background_rgb(background), source=str(path),
                    min_share=min_share, merge_radius=merge_radius, **extra)
 

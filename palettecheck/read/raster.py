@@ -30,6 +30,7 @@ from ..errors import ReadError
 from ..terms import RASTER_EXTENSIONS
 from .extract import ColorCounts, extract
 from .files import file_size
+from .marks import scan_runs, scan_step
 
 __all__ = ["MAX_PIXELS", "RASTER_EXTENSIONS", "read_counts", "open_image", "open_image_bytes",
            "counts_from_image", "apply_icc", "read", "check_end", "unique_inverse", "count_runs"]
@@ -154,8 +155,12 @@ def _count_uint32(im, mode: str, lossy: bool = False):
     w, h = im.size
     width = max(1, min(w, h) // 100)  # border strip: 1 % of the short side
     parts, border = [], []
+    step = scan_step(w, h)
+    rows, cols = [], []  # every step-th row and column: the marks' run lengths (read/marks.py)
     for y0, block in _uint32_blocks(im, mode):
         n = block.shape[0]
+        rows.append(block[(-y0) % step::step].copy())
+        cols.append(block[:, ::step].copy())
         parts.append(count_runs(block.ravel(), FLAT_RUN, LOSSY_STEP if lossy else 0))
         if y0 < width or y0 + n > h - width:
             border.append(count_runs(np.sort(block[_border_mask(h, w, y0, n, width)])))
@@ -164,7 +169,7 @@ def _count_uint32(im, mode: str, lossy: bool = False):
                                                               block[:, w - width:].ravel()]))))
     vals, cnts, flat = _merge(parts)
     bvals, bcnts, _ = _merge(border)
-    return vals, cnts, flat, bvals, bcnts
+    return vals, cnts, flat, bvals, bcnts, (rows, cols, step)
 
 
 def _channels(values: np.ndarray, mode: str) -> np.ndarray:
@@ -327,12 +332,14 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     elif im.mode in ("L", "1") or im.mode not in ("RGB", *_DIRECT):
         im = im.convert("RGB")
     mode = "RGBX" if im.mode == "RGB" else im.mode
-    vals, cnts, flat, bvals, bcnts = _count_uint32(im, mode, lossy)
+    vals, cnts, flat, bvals, bcnts, (rows, cols, step) = _count_uint32(im, mode, lossy)
     size = im.size
+    lines = (scan_runs(np.concatenate(rows), vals), scan_runs(np.concatenate(cols).T, vals), step) if rows \
+        else None
     rgba = _to_srgb(_channels(vals, mode), mode, icc, notes)
     border = _to_srgb(_channels(bvals, mode), mode, icc, [])
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),
-                       exact=False, lossy=lossy, size=size, notes=tuple(notes))
+                       exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines)
 
 
 def read_counts(path, max_pixels: int = MAX_PIXELS) -> ColorCounts:

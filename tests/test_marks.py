@@ -1,0 +1,130 @@
+"""The mark each colour of a raster chart is drawn as (palettecheck.read.marks), and
+the chart's mark chosen from it.
+
+Truth is the drawing code's: matplotlib line widths are in points, 1 pt = 1/72 inch,
+so a width of w pt is w * dpi / 72 pixels (V: matplotlib's documentation of
+``Line2D.set_linewidth`` and of ``savefig``'s dpi); a scatter's ``s`` is the marker
+area in points squared, its width sqrt(s) pt (V: ``Axes.scatter`` documentation).
+"""
+
+from __future__ import annotations
+
+import json
+
+import numpy as np
+import pytest
+from helpers import delta, draw, panel_scatter, save, thin_lines
+from matplotlib.figure import Figure
+
+import palettecheck
+from palettecheck.judge import check_sources
+from palettecheck.read.marks import scan_runs
+
+
+def marks(path) -> dict:
+    """Each read colour's mark, and each drawn colour's under its nearest read colour."""
+    found = {h: (k, z) for h, k, z in palettecheck.read_image(path).marks}
+    return _Nearest(found)
+
+
+class _Nearest(dict):
+    def __missing__(self, hex_):
+        keys = list(self)
+        return self[keys[int(np.argmin(delta([hex_], keys)[0]))]]
+
+
+@pytest.mark.parametrize("dpi", [100, 200])
+@pytest.mark.parametrize("width_pt", [0.72, 1.5, 3.0])
+@pytest.mark.parametrize("direction", ["wave", "horizontal", "vertical", "diagonal"])
+def test_line_width_is_read_across_the_line(tmp_path, dpi, width_pt, direction):
+    fig, truth = thin_lines(width_pt=width_pt, dpi=dpi, direction=direction, legend=False)
+    fig.savefig(tmp_path / "l.png")
+    found = marks(tmp_path / "l.png")
+    px = width_pt * dpi / 72
+    for c in truth:
+        kind, size = found[c]
+        if direction == "diagonal" and px > 4:  # known limit: a thick 45° line reads as points
+            assert kind in ("line", "point")
+            continue
+        assert kind == "line", (c, found)
+        # a scanline crosses a line at angle θ over w / cos θ: up to 1.41 w on a diagonal;
+        # the wavy lines bend, so their crossings run a little longer
+        assert px * 0.85 <= size <= px * (1.45 if direction in ("diagonal", "wave") else 1.15) + 0.3, (c, size, px)
+
+
+def test_dashed_lines_are_lines_dotted_ones_thin_marks(tmp_path):
+    """Known limit: the dots of a dotted line are read as what they are, small points
+    (their width right); the dashes of a dashed line as a line."""
+    fig, truth = thin_lines(width_pt=1.5, style="--")
+    fig.savefig(tmp_path / "d.png")
+    found = marks(tmp_path / "d.png")
+    assert all(found[c][0] == "line" for c in truth), found
+    fig, truth = thin_lines(width_pt=1.5, style=":")
+    fig.savefig(tmp_path / "o.png")
+    found = marks(tmp_path / "o.png")
+    assert all(found[c][0] in ("line", "point") and 1.5 <= found[c][1] <= 3.0 for c in truth), found
+
+
+def test_small_markers_on_a_tinted_panel_are_points(tmp_path):
+    fig, truth = panel_scatter(size=9.0)  # 3 pt wide: 4.2 px at 100 dpi
+    fig.savefig(tmp_path / "p.png")
+    found = marks(tmp_path / "p.png")
+    for c in truth:
+        assert found[c][0] == "point" and 3.0 <= found[c][1] <= 5.5, found
+
+
+@pytest.mark.parametrize("kind", ["bar", "stacked", "pie"])
+def test_bars_and_wedges_are_areas(tmp_path, kind):
+    fig, bg, fg, truth = draw(kind, "light")
+    fig.savefig(tmp_path / "a.png")
+    found = marks(tmp_path / "a.png")
+    assert all(found[c][0] == "area" for c in truth), found
+
+
+@pytest.mark.parametrize("kind, mark", [("line", "line"), ("bar", "area"), ("pie", "area"), ("scatter", "point")])
+def test_the_chart_mark_is_its_smallest_data_mark(tmp_path, kind, mark):
+    fig, bg, fg, truth = draw(kind, "light")
+    fig.savefig(tmp_path / "c.png")
+    result = check_sources([str(tmp_path / "c.png")])
+    assert result.settings.mark == mark
+    assert any(n.startswith(f"mark: {mark}, the smallest data mark") for n in result.palette.notes)
+    assert check_sources([str(tmp_path / "c.png")], mark="area").settings.mark == "area"  # --mark overrides
+
+
+def test_scan_of_a_folder_mixing_line_and_bar_charts_judges_each_by_its_mark(tmp_path, invoke):
+    tmp_path = tmp_path / "charts"
+    tmp_path.mkdir()
+    for kind in ("line", "bar", "scatter"):
+        fig, *_ = draw(kind, "light")
+        save(fig, tmp_path / f"{kind}.png", "png")
+    r = invoke("scan", str(tmp_path), "--format", "json", "--jobs", "1")
+    data = json.loads(r.stdout)
+    by = {img["path"].rsplit("/", 1)[-1]: img for img in data["images"]}
+    assert {k: by[f"{k}.png"]["mark"] for k in ("line", "bar", "scatter")} == \
+        {"line": "line", "bar": "area", "scatter": "point"}
+    assert all(set(v) == {"kind", "size_px"} for v in by["line.png"]["marks"].values())
+    r = invoke("scan", str(tmp_path), "--format", "json", "--jobs", "1", "--mark", "line")
+    assert {img["mark"] for img in json.loads(r.stdout)["images"]} == {"line"}
+    r = invoke("check", str(tmp_path / "line.png"))
+    assert "line marks" in r.stdout
+
+
+def test_text_report_names_the_mark_found(tmp_path, invoke):
+    fig, truth = thin_lines()
+    fig.savefig(tmp_path / "t.png")
+    r = invoke("check", str(tmp_path / "t.png"))
+    assert "line marks" in r.stdout and "mark: line, the smallest data mark found" in r.stdout
+
+
+def test_scan_runs_against_a_hand_made_image():
+    """Runs along rows of a small array, counted by hand: [5 5 7 7 7] and [7 5 5 5 5]."""
+    lines = np.array([[5, 5, 7, 7, 7], [7, 5, 5, 5, 5]], dtype=np.uint32)
+    idx, length, row = scan_runs(lines, np.array([5, 7], dtype=np.uint32))
+    assert idx.tolist() == [0, 1, 1, 0] and length.tolist() == [2, 3, 1, 4] and row.tolist() == [0, 0, 1, 1]
+
+
+def test_a_live_scatter_is_judged_as_points():
+    fig = Figure(figsize=(4, 3), dpi=100)
+    fig.add_subplot().scatter([1, 2, 3], [1, 3, 2], s=16, color="#1b6ca8")
+    check = palettecheck.check_figure(fig)
+    assert check.result.settings.mark == "point"
