@@ -13,7 +13,7 @@ References
   L (10.16, 1.50), a (10.68, 3.08), b (10.70, 5.74); fitted for 1/3 deg to 6 deg.
   The decision rule "noticeable at p when sqrt(sum((d_i / ND_i(p, s))**2)) >= 1" is
   how we remember the paper combining the axes (from memory, not verified in the
-  text); the constants are secondary (two transcriptions agree).
+  text); the constants are secondary (two copies agree).
 - [CIE159] CIE 159:2004, CIECAM02 (the viewing-condition symbols L_A, Y_b). The
   relation L_A = L_W * Y_b / 100 (adapting luminance a fraction Y_b of the white's
   luminance L_W, the "grey world" reading) is from memory of CIE 159 and

@@ -30,7 +30,7 @@ def checks_of(result, severity=None):
 
 
 # Stone, Szafir & Setlur 2014 (CIC 22), ND(p, s) = p (A + B/s), at p 0.5 for 1 deg,
-# 1/3 deg and 2 deg. V (secondary): the values as two independent transcriptions of
+# 1/3 deg and 2 deg. V (secondary): the values as two independent copies of
 # the paper's constants give them (paper not read); 0.8 at 2 deg follows from them.
 @pytest.mark.parametrize("p, s, expected", [
     (0.5, 1.0, (5.830, 6.880, 8.220)),
