@@ -40,20 +40,19 @@ def _tokens(kind, hexes, names, summary) -> str:
     return json.dumps({"palettecheck": {kind: group}}, indent=2, ensure_ascii=False) + "\n"
 
 
-def _scss(kind, hexes, names, summary) -> str:
-    keys = _keys(kind, names)
-    lines = [f"// {kind} palette from palettecheck: {summary}"]
-    lines += [f"${k}: {h};" for k, h in zip(keys, hexes)]
-    lines.append(f"${kind}-palette: ({', '.join('$' + k for k in keys)});")
-    return "\n".join(lines) + "\n"
+def _variables(sigil: str, open_list: str, close_list: str):
+    """SCSS (``$name``, a parenthesised list) or LESS (``@name``, a bare list) variables."""
+    def render(kind, hexes, names, summary) -> str:
+        keys = _keys(kind, names)
+        lines = [f"// {kind} palette from palettecheck: {summary}"]
+        lines += [f"{sigil}{k}: {h};" for k, h in zip(keys, hexes)]
+        lines.append(f"{sigil}{kind}-palette: {open_list}{', '.join(sigil + k for k in keys)}{close_list};")
+        return "\n".join(lines) + "\n"
+    return render
 
 
-def _less(kind, hexes, names, summary) -> str:
-    keys = _keys(kind, names)
-    lines = [f"// {kind} palette from palettecheck: {summary}"]
-    lines += [f"@{k}: {h};" for k, h in zip(keys, hexes)]
-    lines.append(f"@{kind}-palette: {', '.join('@' + k for k in keys)};")
-    return "\n".join(lines) + "\n"
+_scss = _variables("$", "(", ")")
+_less = _variables("@", "", "")
 
 
 def _mplstyle(kind, hexes, names, summary) -> str:
