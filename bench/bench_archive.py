@@ -41,6 +41,28 @@ def draw(path: Path, seed: int, size=(3.2, 2.0)) -> None:
     fig.savefig(path)
 
 
+def draw_export(path: Path, seed: int) -> None:
+    """A dashboard export at 1600x1000: lines or bars with a title, grid and legend."""
+    from matplotlib.figure import Figure
+
+    rng = np.random.default_rng(seed)
+    fig = Figure(figsize=(16.0, 10.0), dpi=100)
+    ax = fig.add_subplot()
+    k = 3 + seed % 4
+    if seed % 2:
+        x = np.arange(48)
+        for j in range(k):
+            ax.plot(x, np.cumsum(rng.normal(0, 1, x.size)) + 5 * j, color=COLORS[j], lw=1.5, label=f"region {j + 1}")
+    else:
+        for j in range(k):
+            ax.bar(np.arange(12) + j / (k + 1), rng.uniform(2, 9, 12), width=1 / (k + 1), color=COLORS[j],
+                   label=f"product {j + 1}")
+    ax.grid(True, color="#dddddd")
+    ax.legend()
+    ax.set_title(f"Harbourline Freight, depot {seed}")  # invented
+    fig.savefig(path)
+
+
 def peak_rss_mib(args) -> tuple[float, float]:
     """(seconds, peak resident memory in MiB) of one command run as a child process."""
     code = ("import resource, subprocess, sys, time; t = time.perf_counter(); "
@@ -71,16 +93,20 @@ def main() -> None:
               f"2000 charts {t2000:.1f} s, peak {m2000:.0f} MiB")
         print(f"RATIO peak memory 2000 / 200 = {m2000 / m200:.2f}  (target <= 1.2)")
 
-        exports = tmp / "exports"  # charts at a dashboard export's size, where reading dominates
+        exports = tmp / "exports"  # dashboard exports (lines, bars, legends, grids)
         exports.mkdir()
-        for i in range(60):
-            draw(exports / f"e{i:03d}.png", i, size=(16.0, 10.0))
+        for i in range(120):
+            draw_export(exports / f"e{i:03d}.png", i)
         cache = tmp / "cache.sqlite"
-        first, _ = peak_rss_mib([*CLI, "scan", str(exports), "--format", "jsonl", "--jobs", "1", "--cache", str(cache)])
-        again, _ = peak_rss_mib([*CLI, "scan", str(exports), "--format", "jsonl", "--jobs", "1", "--cache", str(cache)])
-        print(f"60 charts of 1600x1000 with --cache: first scan {first:.2f} s, re-scan {again:.2f} s "
-              "(a re-scan reads no chart; it still checks their colours)")
-        print(f"RATIO re-scan / first = {again / first:.2f}  (target <= 0.1)")
+        scan = [*CLI, "scan", str(exports), "--format", "jsonl", "--jobs", "1", "--cache", str(cache)]
+        first, _ = peak_rss_mib(scan)
+        again, _ = peak_rss_mib(scan)
+        start, _ = peak_rss_mib([*CLI, "scan", str(exports / "e000.png"), "--format", "jsonl", "--jobs", "1",
+                                 "--cache", str(cache)])  # the fixed cost: start-up, imports, one cached chart
+        print(f"120 dashboard exports of 1600x1000 with --cache: first scan {first:.2f} s, re-scan {again:.2f} s "
+              f"(reads and checks nothing: the verdicts are cached); start-up with one cached chart {start:.2f} s")
+        print(f"RATIO re-scan / first = {again / first:.3f}  (target <= 0.1)")
+        print(f"RATIO per chart, start-up taken off both = {(again - start) / (first - start):.4f}")
 
         try:
             import distributed

@@ -390,7 +390,7 @@ def _stream_scan(paths, settings, run, cache, client, output):
 
     def results():
         progress = _progress_bar()
-        for n, item in enumerate(iter_checks(files, settings, cache=cache, client=client, **run), 1):
+        for n, item in enumerate(iter_checks(files, settings, cache=cache, client=client, stored=True, **run), 1):
             if item[2]:
                 failed.append(item)
                 click.echo(f"palettecheck: {one_line(item[2])}", err=True)

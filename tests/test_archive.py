@@ -69,6 +69,39 @@ def test_cache_on_the_command_line(invoke, archive, tmp_path):
     assert a == b and cache.stat().st_size > 0
 
 
+def test_streamed_rescan_reuses_verdicts_and_agrees(invoke, archive, tmp_path):
+    """A JSON Lines re-scan under the same settings neither reads nor checks a chart
+    again; its lines are the first scan's, byte for byte (in the order charts finish:
+    cached ones come first); a moved chart keeps its
+    verdict under its new name; changed settings check the cached reading afresh."""
+    from palettecheck.judge.charts import ImageCheck, StoredCheck, iter_checks
+    from palettecheck.read.images import find_images
+
+    cache_file = tmp_path / "c.sqlite"
+    args = ("scan", str(archive), "--format", "jsonl", "--cache", str(cache_file), "--jobs", "1")
+    first, again = invoke(*args).stdout, invoke(*args).stdout
+    assert sorted(first.splitlines()) == sorted(again.splitlines()) and first.count('"score"') == 6
+    fresh = invoke("scan", str(archive), "--format", "jsonl", "--jobs", "1").stdout
+    assert sorted(first.splitlines()) == sorted(fresh.splitlines())  # same as no cache at all
+
+    files, _ = find_images([archive])
+    with ReadingCache(cache_file) as cache:
+        kinds = {type(c) for _, c, e in iter_checks(files, cache=cache, stored=True) if not e}
+        assert kinds == {StoredCheck} and cache.misses == 1  # only the broken file
+    moved = tmp_path / "moved"
+    moved.mkdir()
+    (moved / "renamed.png").write_bytes((archive / "chart0.png").read_bytes())
+    with ReadingCache(cache_file) as cache:
+        [(path, check, _)] = iter_checks([moved / "renamed.png"], cache=cache, stored=True)
+        assert isinstance(check, StoredCheck) and check.to_dict()["path"] == path == str(moved / "renamed.png")
+        assert check.to_dict()["source"] == path
+    with ReadingCache(cache_file) as cache:  # other settings: no verdict, but the reading is reused
+        [(_, check, _)] = iter_checks([moved / "renamed.png"], palettecheck.Settings(severity=0.5),
+                                      cache=cache, stored=True)
+        assert isinstance(check, ImageCheck) and (cache.hits, cache.misses) == (1, 0)
+        assert check.result.to_dict()["severity"] == 0.5
+
+
 def test_dask_cluster_gives_the_same_results(archive):
     """External engine: a local Dask cluster (dask.distributed) of two worker processes."""
     distributed = pytest.importorskip("distributed")

@@ -36,7 +36,7 @@ from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "chart_mark", "MARK_MIN_SHARE", "require_colors",
            "scan", "check_figure", "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks",
-           "Blob"]
+           "Blob", "StoredCheck"]
 
 @dataclass
 class ImageCheck:
@@ -56,6 +56,22 @@ class ImageCheck:
         if self.reading.size:
             d["size"] = list(self.reading.size)
         return d
+
+
+@dataclass
+class StoredCheck:
+    """A chart's check as a verdict cache stored it (its JSON): what a streaming scan
+    needs, ``passed`` and :meth:`to_dict`, without reading or checking again."""
+
+    path: str
+    data: dict
+
+    @property
+    def passed(self) -> bool:
+        return self.data["passed"]
+
+    def to_dict(self) -> dict:
+        return {**self.data, "source": self.path, "path": self.path}
 
 
 @dataclass
@@ -308,38 +324,44 @@ def scan(paths, settings=None, *, jobs: int | None = None, kind: str | None = No
 def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | None = None, backgrounds=(),
                 include_neutrals: bool = False, min_share: float = DEFAULT_MIN_SHARE,
                 merge_radius: float = DEFAULT_MERGE_RADIUS, cache=None, client=None, mark: str | None = None,
-                page: int = 1):
+                page: int = 1, stored: bool = False):
     """Read and check chart files, yielding ``(path, ImageCheck or None, error or None)``
     for each as it finishes (not in file order), holding only the charts in flight:
     the memory of a scan of millions of charts stays flat when the caller does not
-    keep them (``scan --format jsonl``). Arguments as for :func:`scan`."""
+    keep them (``scan --format jsonl``). Arguments as for :func:`scan`.
+
+    With a ``cache``, a chart whose bytes were read before is not read again; with
+    ``stored`` too, one checked before under the same settings is not checked again
+    either: its verdict comes back as a :class:`StoredCheck` (for callers that need
+    only its JSON and ``passed``).
+    """
     settings = settings or Settings()
     backgrounds = tuple(backgrounds)
     job = _Job(settings, kind, backgrounds, include_neutrals, min_share, merge_radius, mark, page)
     todo, keys = [], {}
-    fallback = backgrounds[0] if backgrounds else settings.backgrounds[0]
+    options = _cache_options(job) if cache is not None else None
     for f in files:
         f = f if isinstance(f, Blob) else str(f)
         if cache is not None:
-            try:
-                import hashlib
-
-                from ..read.cache import file_digest
-
-                digest = hashlib.sha256(f.data).hexdigest() if isinstance(f, Blob) else file_digest(f)
-                key = cache.key(digest, {"min_share": min_share, "merge_radius": merge_radius,
-                                         "background": fallback, **({"page": page} if page != 1 else {})})
-            except OSError:
-                key = None  # unreadable: _one says why
-            reading = cache.get(key) if key else None
-            if reading is not None:
-                try:
-                    yield str(f), check_image(reading, settings, kind=kind, backgrounds=backgrounds,
-                                              include_neutrals=include_neutrals, mark=mark), None
-                except ReadError as e:
-                    yield str(f), None, str(e)
-                continue
-            keys[str(f)] = key
+            keys[str(f)] = key = _cache_keys(cache, f, options)
+            if key is not None:
+                verdict = cache.get_verdict(key[1]) if stored else None
+                if verdict is not None:
+                    cache.hits += 1
+                    yield str(f), StoredCheck(str(f), verdict), None
+                    continue
+                reading = cache.get(key[0])
+                if reading is not None:
+                    try:
+                        check = check_image(reading, settings, kind=kind, backgrounds=backgrounds,
+                                            include_neutrals=include_neutrals, mark=mark)
+                    except ReadError as e:
+                        yield str(f), None, str(e)
+                        continue
+                    if stored:
+                        cache.put_verdict(key[1], _stored(check))
+                    yield str(f), check, None
+                    continue
         todo.append(f)
     if client is not None:
         source = _on_cluster(client, todo, job)
@@ -347,9 +369,48 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
         workers = min(capped_jobs(jobs), max(1, len(todo)))
         source = (_one(f, job) for f in todo) if workers <= 1 else _in_pool(todo, job, workers)
     for path, check, error in source:
-        if cache is not None and check is not None and keys.get(path):
-            cache.put(keys[path], check.reading)
+        key = keys.get(path)
+        if key is not None and check is not None:
+            cache.put(key[0], check.reading)
+            if stored:
+                cache.put_verdict(key[1], _stored(check))
         yield path, check, error
+
+
+def _cache_options(job: _Job) -> tuple[dict, str]:
+    """What a chart's reading depends on besides its bytes, and (as JSON text) what
+    its verdict depends on besides its reading: computed once per scan."""
+    import dataclasses
+    import json
+
+    s = job.settings
+    fallback = job.backgrounds[0] if job.backgrounds else s.backgrounds[0]
+    reading = {"min_share": job.min_share, "merge_radius": job.merge_radius, "background": fallback,
+               "viewing": dataclasses.asdict(s.viewing), **({"page": job.page} if job.page != 1 else {})}
+    judged = json.dumps([dataclasses.asdict(s), job.kind, job.backgrounds, job.include_neutrals, job.mark],
+                        sort_keys=True, default=str)
+    return reading, judged
+
+
+def _cache_keys(cache, f, options: tuple[dict, str]) -> tuple[str, str] | None:
+    """The reading's and the verdict's cache keys of one chart; None when its bytes
+    cannot be read (:func:`_one` then says why)."""
+    import hashlib
+
+    from ..read.cache import file_digest
+
+    try:
+        digest = hashlib.sha256(f.data).hexdigest() if isinstance(f, Blob) else file_digest(f)
+    except OSError:
+        return None
+    reading = cache.key(digest, options[0])
+    return reading, hashlib.sha256(f"{reading} {options[1]}".encode()).hexdigest()
+
+
+def _stored(check: ImageCheck) -> dict:
+    """A check's JSON for the verdict cache; :meth:`StoredCheck.to_dict` puts the
+    chart's current name in its ``source`` and ``path`` (a moved chart still hits)."""
+    return check.to_dict()
 
 
 def _on_cluster(client, files: list[str], job: _Job):

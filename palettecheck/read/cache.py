@@ -3,9 +3,14 @@
 Reading a chart (decoding it and finding its colours) is what a scan spends its time
 on; checking the colours read is cheap. The cache keeps each chart's reading in an
 embedded SQLite database, keyed by the SHA-256 of the file's bytes, the reading
-options and palettecheck's version, so a renamed or moved chart still hits and an
-edited one, or a new version of the reader, misses. Checks always run afresh, under
-the settings of the run. Off unless asked for (``scan --cache PATH``).
+options (viewing conditions included) and palettecheck's version, so a renamed or
+moved chart still hits and an edited one, or a new version of the reader, misses.
+
+Beside each reading it can keep verdicts: the JSON of a chart's check, keyed by the
+reading's key and everything the check depends on (the settings, kind, backgrounds,
+mark). A streaming scan (``--format jsonl``) whose settings match reuses the verdict
+and skips the check as well; any other run checks the cached reading afresh. Off
+unless asked for (``scan --cache PATH``).
 
 Nothing but plain JSON is stored and read back: a cache file cannot run code.
 """
@@ -27,6 +32,10 @@ __all__ = ["ReadingCache", "file_digest", "reading_to_json", "reading_from_json"
 _SCHEMA = """CREATE TABLE IF NOT EXISTS readings (
     key TEXT PRIMARY KEY,
     reading TEXT NOT NULL
+);
+CREATE TABLE IF NOT EXISTS verdicts (
+    key TEXT PRIMARY KEY,
+    verdict TEXT NOT NULL
 )"""
 
 
@@ -62,7 +71,7 @@ class ReadingCache:
         self.path = Path(path)
         try:
             self._db = sqlite3.connect(self.path)
-            self._db.execute(_SCHEMA)
+            self._db.executescript(_SCHEMA)
             self._db.commit()
         except sqlite3.Error as e:
             raise ReadError(f"{self.path}: cannot use as a cache ({e})") from None
@@ -86,6 +95,22 @@ class ReadingCache:
     def put(self, key: str, reading: ChartColors) -> None:
         self._db.execute("INSERT OR REPLACE INTO readings (key, reading) VALUES (?, ?)",
                          (key, reading_to_json(reading)))
+
+    def get_verdict(self, key: str) -> dict | None:
+        """A check's JSON stored under ``key`` (see :meth:`key`), or None."""
+        row = self._db.execute("SELECT verdict FROM verdicts WHERE key = ?", (key,)).fetchone()
+        if row is not None:
+            try:
+                verdict = json.loads(row[0])
+                if isinstance(verdict, dict) and isinstance(verdict.get("passed"), bool):
+                    return verdict
+            except ValueError:
+                pass  # a damaged row is a miss; it is written again
+        return None
+
+    def put_verdict(self, key: str, verdict: dict) -> None:
+        self._db.execute("INSERT OR REPLACE INTO verdicts (key, verdict) VALUES (?, ?)",
+                         (key, json.dumps(verdict, ensure_ascii=False)))  # non-finite kept; output makes it null
 
     def close(self) -> None:
         self._db.commit()

@@ -31,7 +31,10 @@ def _finite(node):
 def json_text(obj, indent: int | None = 2) -> str:
     """``obj`` as strict JSON text ending in a newline: indented, or on one line when
     ``indent`` is None (JSON Lines)."""
-    text = json.dumps(_finite(obj), indent=indent, ensure_ascii=False, allow_nan=False)
+    try:  # the common case, every number finite, at the C encoder's speed
+        text = json.dumps(obj, indent=indent, ensure_ascii=False, allow_nan=False)
+    except ValueError:
+        text = json.dumps(_finite(obj), indent=indent, ensure_ascii=False, allow_nan=False)
     return json_escapes(text) + "\n"
 
 
