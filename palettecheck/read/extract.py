@@ -48,7 +48,7 @@ from ..color import Palette, Swatch, to_hex
 from ..config import SRGB_VIEWING
 from ..perceive.ucs import to_ucs
 from .blends import explain_tints
-from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
+from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance, step_colors
 from .marks import measure_marks
 
 __all__ = [
@@ -412,6 +412,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if counts.exact:
         canvas = float(counts.size[0] * counts.size[1]) if counts.size else np.inf
     panel_i = find_panel(w, flat, chroma_all, bg_i, canvas)
+    flat_drawn = flat.copy()  # before tints are moved to their marks: what each colour holds itself
     tint_of = np.full(len(rgb), -1)
     if not counts.exact and not counts.lossy:  # anti-aliased tints count as coverage of the mark that made them
         for base in ([panel_i] if panel_i is not None else []) + [bg_i]:
@@ -467,7 +468,8 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if found is not None:
         path, along = found
         picked, pshare, kind = sample_path(g_jab, path, along, g_jab[0])
-        colors = tuple((to_hex(g_rgb[k]), float(s / plot)) for k, s in zip(picked, pshare))
+        shown = step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat_drawn, g_rgb[outline])
+        colors = tuple((to_hex(c), float(s / plot)) for c, s in zip(shown, pshare))
         on_path = set(int(k) for k in path)
         neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)
                          if k != 0 and k not in on_path and g_chroma[k] < NEUTRAL_CHROMA and share[k] >= min_share)
