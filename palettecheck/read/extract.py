@@ -84,6 +84,10 @@ BLEND_SHARE_RATIO = 0.5
 MAX_SEED_CANDIDATES = 600
 #: Groups under this share of the non-background pixels are not used as parents.
 PARENT_MIN_SHARE = 0.0005
+#: A colour on edges only lying within this sRGB distance of a mix of a mark, a grey
+#: and the page is that mix (8-bit rounding of an exact three-way mix stays within
+#: 0.9; practical choice, kept tight: most muted colours are some such mix).
+THREE_WAY_TOLERANCE = 1.5
 #: A plot panel: one grey (M' under NEUTRAL_CHROMA) covering at least this share of
 #: the whole image, nearly all of it in flat fill (practical choice, no source: a
 #: default axes face covers 55-75 % of a figure; data bars rarely a third of it).
@@ -354,6 +358,15 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
             if np.any(hit):
                 blend[c] = True
                 continue
+            # where a thin mark crosses the edge of a grey frame (a legend's), one pixel
+            # mixes three: mark, frame and page; such a colour sits on edges only
+            greys = others[chroma[others] < NEUTRAL_CHROMA]
+            marks = parents[(parents != c) & (chroma[parents] >= NEUTRAL_CHROMA)
+                            & (w[parents] * BLEND_SHARE_RATIO >= w[c])]
+            if not lossy and edgy and len(greys) and len(marks) and \
+                    _three_way(rgb[c], rgb[bg], rgb[greys], rgb[marks], THREE_WAY_TOLERANCE):
+                blend[c] = True
+                continue
         away = np.sqrt(((jab[solid] - jab[c]) ** 2).sum(-1))
         tops = solid[away > 2.0 * radius]
         below = vivid_parents[np.sqrt(((jab[vivid_parents] - jab[c]) ** 2).sum(-1)) > radius]  # deep stacks
@@ -361,6 +374,25 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
                                   BLEND_TOLERANCE[False] * (2.0 if lossy else 1.0)):
             blend[c] = True
     return blend
+
+
+def _three_way(x: np.ndarray, bg: np.ndarray, greys: np.ndarray, marks: np.ndarray, tol: float) -> bool:
+    """Is ``x`` a mix ``a·m + b·g + (1 − a − b)·bg`` of a mark ``m``, a grey ``g`` and
+    the page (each share at least 5 %), within ``tol`` (sRGB 0-255)?"""
+    gi, mi = np.meshgrid(np.arange(len(greys)), np.arange(len(marks)), indexing="ij")
+    u = marks[mi.ravel()] - bg
+    v = greys[gi.ravel()] - bg
+    r = x - bg
+    uu, vv, uv = (u * u).sum(-1), (v * v).sum(-1), (u * v).sum(-1)
+    ru, rv = u @ r, v @ r
+    det = uu * vv - uv * uv
+    ok = np.abs(det) > 1e-6
+    det = np.where(ok, det, 1.0)
+    a = (ru * vv - rv * uv) / det
+    b = (rv * uu - ru * uv) / det
+    res = np.sqrt(((a[:, None] * u + b[:, None] * v - r) ** 2).sum(-1))
+    fits = ok & (a >= 0.05) & (b >= 0.05) & (a + b <= 0.95) & (res <= tol)
+    return bool(np.any(fits))
 
 
 def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray, tol: float) -> bool:
