@@ -129,6 +129,9 @@ class ColorCounts:
     #: runs of equal pixels along sampled rows and columns (raster images):
     #: ``(row runs, column runs, sampling step)``, see :mod:`palettecheck.read.marks`
     scanlines: tuple | None = None
+    #: the mark each entry of ``rgba`` was painted as (vector files): ``(kinds, sizes)``,
+    #: a kind ("line", "point", "area", "text"; "" unknown) and a size in CSS px per entry
+    painted_marks: tuple | None = None
 
 
 @dataclass(frozen=True)
@@ -533,10 +536,32 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
                        counts.size, tuple(notes), panels, grey_data, (), marks)
 
 
+def _painted_marks(painted, weights, entry_group, g_rgb, data_groups) -> tuple:
+    """``(hex, kind, size)`` of each data colour of a vector file: the kind its paint
+    covers most with (text left out), and the weighted median size of that kind."""
+    kinds, sizes = painted
+    out = []
+    for g in data_groups:
+        mine = (entry_group == g) & (kinds != "") & (kinds != "text")
+        if not mine.any():
+            continue
+        k, w, z = kinds[mine], weights[mine], sizes[mine]
+        names = sorted(set(k))
+        kind = max(names, key=lambda n: w[k == n].sum())
+        zs, ws = z[k == kind], w[k == kind]
+        order = np.argsort(zs)
+        cum = np.cumsum(ws[order])
+        size = float(zs[order][np.searchsorted(cum, 0.5 * cum[-1])])
+        out.append((to_hex(g_rgb[g]), kind, size))
+    return tuple(out)
+
+
 def _marks(counts: ColorCounts, inv, rgb, group, tint_of, g_rgb, data_groups, base) -> tuple:
     """``(hex, kind, size)`` of each data colour, from the raster reader's scanline runs:
     each distinct colour labelled by the data colour it belongs to (its group, or the
     mark it is a tint of), weighted by how much of a pixel that mark covers there."""
+    if counts.painted_marks is not None and data_groups:
+        return _painted_marks(counts.painted_marks, counts.weights, group[inv], g_rgb, data_groups)
     if counts.scanlines is None or not data_groups:
         return ()
     slot = np.full(len(g_rgb), -1)
