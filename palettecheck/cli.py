@@ -282,7 +282,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
     settings = _settings(backgrounds=backgrounds, kind=kind, **options)
     if together:
         _review(paths, settings, approved, whole, kind, backgrounds, include_neutrals, min_share, merge_radius,
-                fmt, output)
+                fmt, output, mark=options.get("mark"), page=page)
     if approved or whole:
         raise click.UsageError(f"{'--palette' if approved else '--whole'} goes with --together")
     if jobs is not None and capped_jobs(jobs) < jobs:
@@ -325,7 +325,7 @@ def scan_cmd(paths, jobs, min_share, merge_radius, include_neutrals, together, a
 
 
 def _review(paths, settings, approved, whole, kind, backgrounds, include_neutrals, min_share, merge_radius,
-            fmt, output):
+            fmt, output, mark=None, page=1):
     """scan --together: the charts under PATHS as one display."""
     if fmt not in ("text", "json", "markdown"):
         raise click.UsageError(f"--together writes text, json or markdown, not {fmt}")
@@ -337,7 +337,7 @@ def _review(paths, settings, approved, whole, kind, backgrounds, include_neutral
     palette = read_sources([approved], background_rgb(settings.backgrounds[0])) if approved else None
     review = review_paths(paths, settings, whole=whole, approved=palette, kind=kind,
                           backgrounds=settings.backgrounds if backgrounds else (), include_neutrals=include_neutrals,
-                          min_share=min_share, merge_radius=merge_radius)
+                          min_share=min_share, merge_radius=merge_radius, mark=mark, page=page)
     for _, message in review.errors:
         click.echo(f"palettecheck: {one_line(message)}", err=True)
     if not review.charts and not review.errors:

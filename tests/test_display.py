@@ -135,3 +135,34 @@ def test_display_documents(invoke, tmp_path, fmt):
     bars(tmp_path / "a.png", HOUSE[:3])
     out = invoke("scan", str(tmp_path), "--together", "--format", fmt).stdout
     assert "#173f73" in out and "does not by itself certify" in out
+
+
+def test_review_takes_the_mark_and_the_pdf_page(tmp_path):
+    from matplotlib.backends.backend_pdf import PdfPages
+
+    bars(tmp_path / "a.png", HOUSE[:3])
+    with PdfPages(tmp_path / "two.pdf") as pdf:  # page 1 orange + navy, page 2 teal + plum
+        for colours in ([HOUSE[1], HOUSE[0]], [HOUSE[3], HOUSE[4]]):
+            fig = Figure(figsize=(4, 3))
+            fig.add_subplot().bar(range(2), [3, 4], color=colours)
+            pdf.savefig(fig)
+    default = review_paths([tmp_path])
+    assert sorted(c.result.settings.mark for c in default.charts) == ["area", "area"]  # bars: their own mark
+    review = review_paths([tmp_path], mark="line", page=2)
+    assert sorted(c.result.settings.mark for c in review.charts) == ["line", "line"]
+    pdf_chart = next(c for c in review.charts if c.path.endswith("two.pdf"))
+    # the colours matplotlib was told to draw on page 2, exactly (flat bars)
+    assert sorted(h for h, _ in pdf_chart.reading.colors) == sorted([HOUSE[3], HOUSE[4]])
+
+
+def test_scan_together_passes_mark_and_page(invoke, tmp_path):
+    from matplotlib.backends.backend_pdf import PdfPages
+
+    with PdfPages(tmp_path / "two.pdf") as pdf:
+        for colours in ([HOUSE[1], HOUSE[0]], [HOUSE[3], HOUSE[4]]):
+            fig = Figure(figsize=(4, 3))
+            fig.add_subplot().bar(range(2), [3, 4], color=colours)
+            pdf.savefig(fig)
+    r = invoke("scan", str(tmp_path), "--together", "--page", "2", "--mark", "line", "--format", "json")
+    image = json.loads(r.stdout)["images"][0]
+    assert image["mark"] == "line" and sorted(c["hex"] for c in image["palette"]) == sorted(HOUSE[3:5])

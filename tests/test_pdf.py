@@ -25,8 +25,8 @@ def test_every_drawn_colour_is_recovered_from_a_pdf(tmp_path, kind, theme):
     found = [h for h, _ in reading.colors]
     assert reading.background == bg
     assert delta(truth, found).min(axis=1).max() <= 2.0  # every drawn colour, within ΔE' 2
-    phantoms = [h for (h, s), d in zip(reading.colors, delta(found, truth).min(axis=1)) if d > 2.0 and s > 0.01]
-    assert not phantoms, phantoms  # measured: one 0.8 % blend in the light 5-line chart with a legend
+    phantoms = [h for (h, s), d in zip(reading.colors, delta(found, truth).min(axis=1)) if d > 2.0 and s > 0.005]
+    assert not phantoms, phantoms  # before the three-way blend rule: a 0.8 % line/legend-frame/page mix
 
 
 def test_thin_lines_in_a_pdf_keep_every_series_and_read_as_lines(tmp_path):

@@ -269,9 +269,15 @@ def review_display(charts: list[ImageCheck], settings: Settings | None = None, *
 
 def review_paths(paths, settings: Settings | None = None, *, whole: bool = False, approved: Palette | None = None,
                  kind: str | None = None, backgrounds=(), include_neutrals: bool = False,
-                 min_share: float | None = None, merge_radius: float | None = None) -> DisplayReview:
+                 min_share: float | None = None, merge_radius: float | None = None, mark: str | None = None,
+                 page: int = 1) -> DisplayReview:
     """Read every chart under ``paths`` (dashboard pages split into their panels unless
-    ``whole``), check each, and review them as one display."""
+    ``whole``), check each, and review them as one display.
+
+    :param mark: judge every chart as this mark (default: each chart's smallest data
+        mark, unless the settings set one), as :func:`palettecheck.judge.charts.scan` does.
+    :param page: the page read from PDF charts (from 1); a PDF page is read whole.
+    """
     from ..errors import ReadError
     from ..read.extract import DEFAULT_MERGE_RADIUS, DEFAULT_MIN_SHARE
     from ..read.images import find_images, read_image
@@ -286,8 +292,8 @@ def review_paths(paths, settings: Settings | None = None, *, whole: bool = False
     checks = []
     for f in files:
         try:
-            if whole or f.suffix.lower() == ".svg":
-                readings = [read_image(f, fallback, min_share=share, merge_radius=radius)]
+            if whole or f.suffix.lower() in (".svg", ".pdf"):
+                readings = [read_image(f, fallback, min_share=share, merge_radius=radius, page=page)]
             else:
                 readings = [r for _, r in read_panels(f, fallback, min_share=share, merge_radius=radius)]
         except ReadError as e:
@@ -296,7 +302,7 @@ def review_paths(paths, settings: Settings | None = None, *, whole: bool = False
         for reading in readings:
             try:
                 checks.append(check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
-                                          include_neutrals=include_neutrals))
+                                          include_neutrals=include_neutrals, mark=mark))
             except ReadError as e:
                 if len(readings) == 1:
                     errors.append((str(f), str(e)))

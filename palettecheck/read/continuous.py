@@ -20,7 +20,7 @@ import numpy as np
 
 from ..perceive.ucs import to_ucs
 
-__all__ = ["ramp_order", "find_continuous", "sample_path", "segment_distance", "SCALE_MIN_COLORS"]
+__all__ = ["ramp_order", "find_continuous", "sample_path", "step_colors", "segment_distance", "SCALE_MIN_COLORS"]
 
 #: Most steps reported for a continuous scale ...
 RAMP_STEPS = 9
@@ -41,6 +41,26 @@ SCALE_MIN_COVERAGE = 0.85
 #: Each end of a scale's path loses the colours holding this fraction of its pixels
 #: (noise strung onto the ends, text beyond them; a colour bar's last rows).
 SCALE_TAIL = 0.002
+#: A path's end is extended over colours holding at least this fraction of its flat
+#: fill (a colour bar's row or two of one colour, next to a plot full of data) ...
+EXTEND_MIN_FLAT = 5e-5
+#: ... lying at most this many merge radii beyond the end, or this fraction of the
+#: path's length (where a thin bar's rows fall below the grouping's seed weight,
+#: the step to the last row is longer) ...
+EXTEND_STEP = 4.0
+EXTEND_STEP_SHARE = 0.1
+#: ... onward: the cosine between the step and the end's direction at least this ...
+EXTEND_COS = 0.5
+#: ... and not within this sRGB distance (0-255) of a blend of the end with a grey:
+#: 8-bit rounding of an exact blend stays within 0.9 (practical choice).
+EXTEND_BLEND_TOL = 2.0
+#: The colour shown at an end of a scale holds at least this fraction of its group's
+#: largest flat fill (a row of a colour bar beside a heat-map cell, not a stray pixel).
+END_MIN_FLAT = 0.02
+#: ... and lies within this ΔE' of the line the path ends along (a colormap bends
+#: little over one merge radius; blends with the bar's outline and its neighbour
+#: rows leave that line).
+END_OFF_LINE = 1.0
 
 
 def segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
@@ -95,6 +115,54 @@ def _mst_path(jab: np.ndarray):
     while path[-1] != a:
         path.append(int(prev[path[-1]]))
     return path[::-1], d
+
+
+def _extend(path, along, jab, w, rgb, bg, greys, radius):
+    """Grow each end of a scale's path over the colours that continue it.
+
+    A colour bar gives each colour of its colormap the same few rows, while the
+    data may pile up at one end (a hexbin's empty cells): the far end of the map
+    then holds a sliver of the pixels, below every share the path was found with.
+    Any colour with some flat fill that lies a small step beyond an end, onward
+    in the end's direction, extends it, unless it is a blend of the end with a
+    grey (the bar's outline, the page)."""
+    path, along = list(path), list(along)
+    if len(path) < 3:
+        return np.asarray(path), np.asarray(along)
+    floor = EXTEND_MIN_FLAT * float(np.sum(along))
+    pool = np.flatnonzero(w >= floor)
+    greys = np.unique(np.append(np.asarray(greys, dtype=int), bg))
+    pool = pool[~np.isin(pool, greys) & ~np.isin(pool, path)]
+    for end in (0, -1):
+        used = set()
+        while len(pool):
+            e = path[end]
+            reach = max(EXTEND_STEP * radius,
+                        EXTEND_STEP_SHARE * float(np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1)).sum()))
+            inner = path[2] if end == 0 else path[-3]
+            tangent = jab[e] - jab[inner]
+            tl = float(np.sqrt(tangent @ tangent))
+            step = jab[pool] - jab[e]
+            dist = np.sqrt((step * step).sum(-1))
+            onward = step @ tangent >= EXTEND_COS * dist * max(tl, 1e-9)
+            ok = onward & (dist <= reach) & ~np.isin(pool, list(used))
+            if len(greys):
+                starts = np.repeat(rgb[[e]], len(greys), axis=0)
+                for k in np.flatnonzero(ok):
+                    if segment_distance(rgb[pool[k]], starts, rgb[greys], 0.0, 0.98).min() <= EXTEND_BLEND_TOL:
+                        ok[k] = False
+            if not ok.any():
+                break
+            k = int(np.flatnonzero(ok)[np.argmin(dist[ok])])
+            c = int(pool[k])
+            used.add(c)
+            if end == 0:
+                path.insert(0, c)
+                along.insert(0, float(w[c]))
+            else:
+                path.append(c)
+                along.append(float(w[c]))
+    return np.asarray(path), np.asarray(along, dtype=float)
 
 
 def find_continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=(), *, neutral: float, blend_tol: float):
@@ -156,14 +224,19 @@ def find_continuous(jab, w, chroma, bg, candidates, radius, rgb=None, greys=(), 
             path, along = path[:-1], along[:-1]
         else:
             break
+    if rgb is not None:
+        path, along = _extend(path, along, jab, w, rgb, bg, greys, radius)
     steps = np.sqrt((np.diff(jab[path], axis=0) ** 2).sum(-1))
     if len(path) < SCALE_MIN_COLORS or steps.sum() < SCALE_MIN_LENGTH:
         return None
     if np.median(steps) > 3.0 * radius:  # evenly spread distinct colours, not a smooth run
         return None
-    # pixels must be spread along the path, not piled on one colour
-    p = along[along > 0] / along.sum()
-    if math.exp(-(p * np.log(p)).sum()) < SCALE_MIN_SPREAD:
+    # pixels must be spread along the path, not piled on one colour; the heaviest
+    # colour is left out (a hexbin's or 2-D histogram's empty cells are all the
+    # colormap's low end: most of the plot in one colour, the rest spread)
+    rest = np.delete(along, int(np.argmax(along)))
+    p = rest[rest > 0] / max(rest.sum(), 1e-300)
+    if not len(p) or math.exp(-(p * np.log(p)).sum()) < SCALE_MIN_SPREAD:
         return None
     return path, along
 
@@ -218,6 +291,53 @@ def sample_path(jab, path, along, bg_jab):
     owner = np.argmin(np.abs(arc[:, None] - arc[pick][None, :]), axis=1)
     share = np.bincount(owner, weights=along, minlength=len(pick))
     return [int(path[k]) for k in pick], share, kind
+
+
+def step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat, grey_rgb) -> np.ndarray:
+    """The colour shown for each picked step (a group of merged colours): the
+    group's colour with the most flat fill (its seed may be a colour that gained
+    weight from anti-aliased tints, a blend of two cells); at either end of the
+    path, the group's colour reaching farthest onward along the path (a colour
+    bar's last row), leaving out blends of the end with a grey (the bar's outline)
+    and colours with under ``END_MIN_FLAT`` of the group's flat fill.
+
+    ``group``, ``rgb``, ``jab``, ``flat``: per distinct colour, its group, sRGB,
+    CAM02-UCS and flat-fill count before tints were moved to the marks."""
+    path = [int(k) for k in path]
+    grey_rgb = np.asarray(grey_rgb, dtype=float).reshape(-1, 3)
+
+    out = []
+    for k in picked:
+        k = int(k)
+        members = np.flatnonzero(group == k)
+        f = flat[members]
+        if not len(members) or f.max() <= 0:
+            out.append(g_rgb[k])
+            continue
+        if k not in (path[0], path[-1]) or len(path) < 3:
+            out.append(rgb[members[int(np.argmax(f))]])
+            continue
+        inner = path[2] if k == path[0] else path[-3]
+        base = members[int(np.argmax(f))]
+        within = np.flatnonzero(group == inner)
+        start = jab[within[int(np.argmax(flat[within]))]] if len(within) and flat[within].max() > 0 \
+            else g_jab[inner]
+        tangent = jab[base] - start
+        tangent = tangent / max(float(np.sqrt(tangent @ tangent)), 1e-9)
+        rel = jab[members] - jab[base]
+        off = np.sqrt(np.maximum((rel * rel).sum(-1) - (rel @ tangent) ** 2, 0.0))
+        ok = (f >= END_MIN_FLAT * f.max()) & (off <= END_OFF_LINE)
+        top = rgb[base]
+        if len(grey_rgb):
+            starts = np.repeat(top[None, :], len(grey_rgb), axis=0)
+            for m in np.flatnonzero(ok):
+                x = rgb[members[m]]
+                if np.abs(x - top).max() > EXTEND_BLEND_TOL and \
+                        segment_distance(x, starts, grey_rgb, 0.0, 0.98).min() <= EXTEND_BLEND_TOL:
+                    ok[m] = False
+        reach = np.where(ok, rel @ tangent, -np.inf)
+        out.append(rgb[members[int(np.argmax(reach))]])
+    return np.asarray(out, dtype=float).reshape(-1, 3)
 
 
 def ramp_order(hexes, background: str) -> list[int]:

@@ -48,7 +48,7 @@ from ..color import Palette, Swatch, to_hex
 from ..config import SRGB_VIEWING
 from ..perceive.ucs import to_ucs
 from .blends import explain_tints
-from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance
+from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance, step_colors
 from .marks import measure_marks
 
 __all__ = [
@@ -84,6 +84,10 @@ BLEND_SHARE_RATIO = 0.5
 MAX_SEED_CANDIDATES = 600
 #: Groups under this share of the non-background pixels are not used as parents.
 PARENT_MIN_SHARE = 0.0005
+#: A colour on edges only lying within this sRGB distance of a mix of a mark, a grey
+#: and the page is that mix (8-bit rounding of an exact three-way mix stays within
+#: 0.9; practical choice, kept tight: most muted colours are some such mix).
+THREE_WAY_TOLERANCE = 1.5
 #: A plot panel: one grey (M' under NEUTRAL_CHROMA) covering at least this share of
 #: the whole image, nearly all of it in flat fill (practical choice, no source: a
 #: default axes face covers 55-75 % of a figure; data bars rarely a third of it).
@@ -125,6 +129,9 @@ class ColorCounts:
     #: runs of equal pixels along sampled rows and columns (raster images):
     #: ``(row runs, column runs, sampling step)``, see :mod:`palettecheck.read.marks`
     scanlines: tuple | None = None
+    #: the mark each entry of ``rgba`` was painted as (vector files): ``(kinds, sizes)``,
+    #: a kind ("line", "point", "area", "text"; "" unknown) and a size in CSS px per entry
+    painted_marks: tuple | None = None
 
 
 @dataclass(frozen=True)
@@ -354,6 +361,15 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
             if np.any(hit):
                 blend[c] = True
                 continue
+            # where a thin mark crosses the edge of a grey frame (a legend's), one pixel
+            # mixes three: mark, frame and page; such a colour sits on edges only
+            greys = others[chroma[others] < NEUTRAL_CHROMA]
+            marks = parents[(parents != c) & (chroma[parents] >= NEUTRAL_CHROMA)
+                            & (w[parents] * BLEND_SHARE_RATIO >= w[c])]
+            if not lossy and edgy and len(greys) and len(marks) and \
+                    _three_way(rgb[c], rgb[bg], rgb[greys], rgb[marks], THREE_WAY_TOLERANCE):
+                blend[c] = True
+                continue
         away = np.sqrt(((jab[solid] - jab[c]) ** 2).sum(-1))
         tops = solid[away > 2.0 * radius]
         below = vivid_parents[np.sqrt(((jab[vivid_parents] - jab[c]) ** 2).sum(-1)) > radius]  # deep stacks
@@ -361,6 +377,25 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
                                   BLEND_TOLERANCE[False] * (2.0 if lossy else 1.0)):
             blend[c] = True
     return blend
+
+
+def _three_way(x: np.ndarray, bg: np.ndarray, greys: np.ndarray, marks: np.ndarray, tol: float) -> bool:
+    """Is ``x`` a mix ``a·m + b·g + (1 − a − b)·bg`` of a mark ``m``, a grey ``g`` and
+    the page (each share at least 5 %), within ``tol`` (sRGB 0-255)?"""
+    gi, mi = np.meshgrid(np.arange(len(greys)), np.arange(len(marks)), indexing="ij")
+    u = marks[mi.ravel()] - bg
+    v = greys[gi.ravel()] - bg
+    r = x - bg
+    uu, vv, uv = (u * u).sum(-1), (v * v).sum(-1), (u * v).sum(-1)
+    ru, rv = u @ r, v @ r
+    det = uu * vv - uv * uv
+    ok = np.abs(det) > 1e-6
+    det = np.where(ok, det, 1.0)
+    a = (ru * vv - rv * uv) / det
+    b = (rv * uu - ru * uv) / det
+    res = np.sqrt(((a[:, None] * u + b[:, None] * v - r) ** 2).sum(-1))
+    fits = ok & (a >= 0.05) & (b >= 0.05) & (a + b <= 0.95) & (res <= tol)
+    return bool(np.any(fits))
 
 
 def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray, tol: float) -> bool:
@@ -412,6 +447,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if counts.exact:
         canvas = float(counts.size[0] * counts.size[1]) if counts.size else np.inf
     panel_i = find_panel(w, flat, chroma_all, bg_i, canvas)
+    flat_drawn = flat.copy()  # before tints are moved to their marks: what each colour holds itself
     tint_of = np.full(len(rgb), -1)
     if not counts.exact and not counts.lossy:  # anti-aliased tints count as coverage of the mark that made them
         for base in ([panel_i] if panel_i is not None else []) + [bg_i]:
@@ -467,7 +503,8 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if found is not None:
         path, along = found
         picked, pshare, kind = sample_path(g_jab, path, along, g_jab[0])
-        colors = tuple((to_hex(g_rgb[k]), float(s / plot)) for k, s in zip(picked, pshare))
+        shown = step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat_drawn, g_rgb[outline])
+        colors = tuple((to_hex(c), float(s / plot)) for c, s in zip(shown, pshare))
         on_path = set(int(k) for k in path)
         neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)
                          if k != 0 and k not in on_path and g_chroma[k] < NEUTRAL_CHROMA and share[k] >= min_share)
@@ -499,10 +536,32 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
                        counts.size, tuple(notes), panels, grey_data, (), marks)
 
 
+def _painted_marks(painted, weights, entry_group, g_rgb, data_groups) -> tuple:
+    """``(hex, kind, size)`` of each data colour of a vector file: the kind its paint
+    covers most with (text left out), and the weighted median size of that kind."""
+    kinds, sizes = painted
+    out = []
+    for g in data_groups:
+        mine = (entry_group == g) & (kinds != "") & (kinds != "text")
+        if not mine.any():
+            continue
+        k, w, z = kinds[mine], weights[mine], sizes[mine]
+        names = sorted(set(k))
+        kind = max(names, key=lambda n: w[k == n].sum())
+        zs, ws = z[k == kind], w[k == kind]
+        order = np.argsort(zs)
+        cum = np.cumsum(ws[order])
+        size = float(zs[order][np.searchsorted(cum, 0.5 * cum[-1])])
+        out.append((to_hex(g_rgb[g]), kind, size))
+    return tuple(out)
+
+
 def _marks(counts: ColorCounts, inv, rgb, group, tint_of, g_rgb, data_groups, base) -> tuple:
     """``(hex, kind, size)`` of each data colour, from the raster reader's scanline runs:
     each distinct colour labelled by the data colour it belongs to (its group, or the
     mark it is a tint of), weighted by how much of a pixel that mark covers there."""
+    if counts.painted_marks is not None and data_groups:
+        return _painted_marks(counts.painted_marks, counts.weights, group[inv], g_rgb, data_groups)
     if counts.scanlines is None or not data_groups:
         return ()
     slot = np.full(len(g_rgb), -1)

@@ -24,6 +24,14 @@ of its size (all after transforms). Fills are reported as flat fill, strokes and
 text as edges (as the raster reader tells runs of equal pixels from edges). The background is the first opaque fill
 covering nearly all of the canvas; without one the given background is used.
 
+Marks: each paint records what it draws, from the shape's extent under its
+transform in CSS px (the root's ``width`` over its ``viewBox``): a shape at most
+``POINT_MAX_PX`` across both ways is a point (diameter: mean extent plus stroke), a
+wider fill an area (its narrow side) or, under ``AREA_MIN_PX``, a line; an unfilled
+stroke is a line of its stroke width. Each data colour then takes the kind it covers
+most with (:func:`palettecheck.read.extract.extract`), so an SVG chart is judged with
+the threshold of its smallest mark as a raster chart is.
+
 Hard limits (each a named setting here or in ``svgstyle``; a file over one is
 refused with one line naming the limit): file size, element count, nesting depth,
 ``<use>`` nesting and expansion, path data length, embedded images, and the time a
@@ -311,6 +319,8 @@ class _Painter:
         texts = [el.text or "" for el in root.iter() if _tag(el) == "style"]
         self.cascade = Cascade(root, path, texts, notes)
         self.colors, self.weights, self.flat = [], [], []  # flat: the part painted by fills
+        self.marks = []  # per colour painted: (kind, size in user units) of the mark it paints
+        self.px = 1.0  # CSS pixels per user unit
         self.background = None
         self.canvas = None
         self.external = 0
@@ -392,13 +402,27 @@ class _Painter:
         (a gradient of many stops, as a colour bar, reads as a continuous scale)."""
         return [(tuple(s[1]), s[2]) for s in self.stops(grad)]
 
-    def add(self, paints, weight, alpha_scale=1.0, fill=True):
+    def add(self, paints, weight, alpha_scale=1.0, fill=True, mark=("", 0.0)):
         for (r, g, b, a), share in paints:
             a *= alpha_scale
             if weight * share > 0 and a > 0:
                 self.colors.append((r, g, b, 255.0 * min(1.0, a)))
                 self.weights.append(weight * share)
                 self.flat.append(weight * share if fill else 0.0)
+                self.marks.append(mark)
+
+    def mark_of(self, el, tag, m, filled: bool, width: float):
+        """``(fill mark, stroke mark)``: ``(kind, size in CSS px)`` of what a shape
+        draws, from its extent under ``m`` (see :func:`_mark_kind`)."""
+        local = self.shapes.get(id(el))
+        if not local or local[0] is None or not any(len(p) for p in local[0]):
+            return ("", 0.0), ("", 0.0)
+        pts = np.vstack([p for p in local[0] if len(p)])
+        lo, hi = pts.min(axis=0), pts.max(axis=0)
+        corners = np.array([[lo[0], lo[1]], [hi[0], lo[1]], [hi[0], hi[1]], [lo[0], hi[1]]])
+        q = corners @ m[:2, :2].T + m[:2, 2]
+        ext = (q.max(axis=0) - q.min(axis=0)) * self.px
+        return _mark_kind(float(ext[0]), float(ext[1]), filled, width * self.px)
 
     def tick(self):
         self.painted += 1
@@ -457,7 +481,7 @@ class _Painter:
             text = "".join(el.itertext()).strip()
             size = _length(style.get("font-size"), 16.0) * math.sqrt(_scale_of(m)[0])
             fill = self.paint_value(style.get("fill", "black"), style, _opacity(style.get("fill-opacity")))
-            self.add(fill, 0.5 * len(text) * size * size, opacity, fill=False)
+            self.add(fill, 0.5 * len(text) * size * size, opacity, fill=False, mark=("text", size * self.px))
             return
         area, length = self.geometry(el, tag, m)
         if area is None:
@@ -468,10 +492,11 @@ class _Painter:
                 and len(fill) == 1 and fill[0][0][3] * opacity >= 0.999:
             self.background = fill[0][0][:3]
             return
-        self.add(fill, area, opacity)
         width = _length(style.get("stroke-width"), 1.0) * math.sqrt(_scale_of(m)[0])
         stroke = self.paint_value(style.get("stroke", "none"), style, _opacity(style.get("stroke-opacity")))
-        self.add(stroke, length * width, opacity, fill=False)
+        fill_mark, stroke_mark = self.mark_of(el, tag, m, bool(fill), width if stroke else 0.0)
+        self.add(fill, area, opacity, mark=fill_mark)
+        self.add(stroke, length * width, opacity, fill=False, mark=stroke_mark)
 
     def geometry(self, el, tag, m):
         """(area, outline length) of a shape under ``m``; the shape's own geometry
@@ -526,6 +551,32 @@ class _Painter:
             self.colors.append((*rgba[:3], rgba[3] * opacity))
             self.weights.append(w * area / total)
             self.flat.append(f * area / total)
+            self.marks.append(("", 0.0))
+
+
+#: A painted shape no longer than this across, in CSS px, both ways, is a point
+#: (a marker: matplotlib's default is 6 pt, 8 px) ...
+POINT_MAX_PX = 16.0
+#: ... and one at least ``AREA_MIN_PX`` across its narrow side an area (as in
+#: :mod:`palettecheck.read.marks`); practical choices, no source.
+
+
+def _mark_kind(w: float, h: float, filled: bool, width: float):
+    """``(fill mark, stroke mark)`` of a shape ``w`` x ``h`` CSS px with a stroke
+    ``width`` px wide: a small shape is a point (its diameter: the mean of its
+    extents, stroke included); a filled one wider than ``AREA_MIN_PX`` an area
+    (its narrow side), a thinner filled one a line; an unfilled stroke a line of
+    its width, and the outline of a filled shape a line of its width too."""
+    from .marks import AREA_MIN_PX
+
+    big, small = max(w, h), min(w, h)
+    if big + width <= POINT_MAX_PX and big <= 3.0 * max(small, width):
+        point = ("point", 0.5 * (w + h) + width)
+        return point, point
+    if not filled:
+        return ("", 0.0), ("line", width)
+    fill = ("area", small) if small >= AREA_MIN_PX else ("line", small)
+    return fill, ("line", width)
 
 
 def _opacity(text) -> float:
@@ -552,6 +603,8 @@ def read_counts(path) -> ColorCounts:
     if len(vb) == 4 and vb[2] > 0 and vb[3] > 0 and all(math.isfinite(v) for v in vb):
         painter.canvas = vb[2] * vb[3]
         size_px = (vb[2], vb[3])
+        w = _length(root.get("width"), 0.0)
+        painter.px = w / vb[2] if w > 0 else 1.0
     else:
         w, h = _length(root.get("width"), 0.0), _length(root.get("height"), 0.0)
         painter.canvas = w * h if w > 0 and h > 0 else None
@@ -566,19 +619,22 @@ def read_counts(path) -> ColorCounts:
     rgba = np.asarray(painter.colors, dtype=float).reshape(-1, 4)
     weights = np.asarray(painter.weights, dtype=float)
     flat = np.asarray(painter.flat, dtype=float)
-    keep = np.isfinite(weights) & np.isfinite(rgba).all(axis=1) & np.isfinite(flat)
-    rgba, weights, flat = rgba[keep], weights[keep], flat[keep]
+    kinds = np.asarray([k for k, _ in painter.marks] or [""], dtype=object)[: len(weights)]
+    sizes = np.asarray([z for _, z in painter.marks] or [0.0], dtype=float)[: len(weights)]
+    keep = np.isfinite(weights) & np.isfinite(rgba).all(axis=1) & np.isfinite(flat) & np.isfinite(sizes)
+    rgba, weights, flat, kinds, sizes = rgba[keep], weights[keep], flat[keep], kinds[keep], sizes[keep]
     if painter.background is not None:
         border = np.asarray([(*painter.background, 255.0)])
         rgba = np.vstack([rgba, border])
         weights = np.append(weights, max(weights.sum(), 1.0) * 1e-6)
         flat = np.append(flat, weights[-1])
+        kinds, sizes = np.append(kinds, ""), np.append(sizes, 0.0)
         border_w = np.ones(1)
     else:
         border, border_w = np.zeros((0, 4)), np.zeros(0)
     size = tuple(int(round(v)) for v in size_px) if size_px and all(v < 1e7 for v in size_px) else None
     return ColorCounts(rgba, weights, border, border_w, flat=flat, exact=True, lossy=False,
-                       size=size, notes=tuple(notes))
+                       size=size, notes=tuple(notes), painted_marks=(kinds, sizes))
 
 
 def read(path: Path, background):

@@ -1,0 +1,98 @@
+"""The mark each colour of an SVG chart is drawn as, and its size (issue 11).
+
+Truth: what the drawing code told matplotlib (line width in pt, scatter marker area
+in pt², bar widths) or what the hand-written file states (stroke-width, r, width),
+converted with CSS's 96 px per inch and 72 pt per inch (CSS Values and Units Level
+3, absolute lengths: 1pt = 1/72 in, 1px = 1/96 in; (M)). The chart is then judged
+with the threshold for its smallest mark, as a raster chart is.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from helpers import draw
+from matplotlib.figure import Figure
+
+import palettecheck
+from palettecheck.judge.charts import check_image
+
+PX_PER_PT = 96 / 72
+
+
+def marks_of(reading) -> dict:
+    return {h: (k, z) for h, k, z in reading.marks}
+
+
+def test_matplotlib_line_chart_marks_are_lines_of_their_width(tmp_path):
+    fig, bg, fg, truth = draw("line", "light", line_px=2.0)  # lw = 2 * 0.72 pt
+    fig.savefig(tmp_path / "c.svg", format="svg")
+    reading = palettecheck.read_image(tmp_path / "c.svg")
+    marks = marks_of(reading)
+    assert set(marks) == set(truth)
+    for h in truth:
+        kind, size = marks[h]
+        assert kind == "line" and size == pytest.approx(2 * 0.72 * PX_PER_PT, rel=1e-6)
+    assert check_image(reading).result.settings.mark == "line"
+
+
+def test_matplotlib_scatter_marks_are_points_of_their_diameter(tmp_path):
+    fig = Figure(figsize=(5, 4))
+    ax = fig.add_subplot()
+    rng = np.random.default_rng(2)
+    colours = ["#1b6ca8", "#e07b39", "#3a9d5d"]
+    for i, c in enumerate(colours):  # s is the marker's area in pt²: diameter sqrt(s) pt (matplotlib docs, (C))
+        ax.scatter(rng.normal(i, 1, 40), rng.normal(0, 1, 40), s=50, color=c, edgecolors="none")
+    fig.savefig(tmp_path / "s.svg", format="svg")
+    reading = palettecheck.read_image(tmp_path / "s.svg")
+    marks = marks_of(reading)
+    assert sorted(marks) == sorted(colours)
+    for h in colours:
+        kind, size = marks[h]
+        assert kind == "point" and size == pytest.approx(np.sqrt(50) * PX_PER_PT, rel=1e-3)
+    assert check_image(reading).result.settings.mark == "point"
+
+
+def test_matplotlib_bars_are_areas(tmp_path):
+    fig = Figure(figsize=(5, 4))
+    colours = ["#1b6ca8", "#e07b39", "#3a9d5d", "#c8414b"]
+    fig.add_subplot().bar(range(4), [3, 5, 4, 6], color=colours, width=0.6)
+    fig.savefig(tmp_path / "b.svg", format="svg")
+    reading = palettecheck.read_image(tmp_path / "b.svg")
+    marks = marks_of(reading)
+    assert sorted(marks) == sorted(colours) and {k for k, _ in marks.values()} == {"area"}
+    assert check_image(reading).result.settings.mark == "area"
+
+
+STYLED = """<svg xmlns="http://www.w3.org/2000/svg" width="400" height="300" viewBox="0 0 400 300">
+<style>
+  .chart .series polyline, .chart .series path { fill: none; stroke-width: 2.5px; }
+  .chart .dots circle { stroke: none; }
+  .s1 { stroke: #1b6ca8; } .s2 { stroke: #c8414b; }
+  .chart .dots .d1 { fill: #3a9d5d; }
+  .chart .bars rect { fill: #7b5ea7; }
+</style>
+<rect width="400" height="300" fill="#ffffff"/>
+<g class="chart">
+  <g class="series">
+    <polyline class="s1" points="10,200 60,150 110,170 160,90 210,120 260,60"/>
+    <path class="s2" d="M10 250 L60 230 L110 240 L160 200 L210 215 L260 180"/>
+  </g>
+  <g class="dots">
+    <circle class="d1" cx="300" cy="50" r="3"/><circle class="d1" cx="320" cy="70" r="3"/>
+    <circle class="d1" cx="340" cy="40" r="3"/><circle class="d1" cx="360" cy="80" r="3"/>
+  </g>
+  <g class="bars"><rect x="290" y="150" width="30" height="120"/><rect x="340" y="190" width="30" height="80"/></g>
+</g>
+</svg>"""
+
+
+def test_stylesheet_svg_marks(tmp_path):
+    (tmp_path / "styled.svg").write_text(STYLED)
+    reading = palettecheck.read_image(tmp_path / "styled.svg", min_share=0.0)
+    marks = marks_of(reading)
+    assert marks["#1b6ca8"] == ("line", pytest.approx(2.5)) and marks["#c8414b"] == ("line", pytest.approx(2.5))
+    assert marks["#3a9d5d"] == ("point", pytest.approx(6.0, rel=1e-3))  # r = 3: diameter 6
+    assert marks["#7b5ea7"] == ("area", pytest.approx(30.0))  # the narrow side of the bars
+    # judged for its smallest mark: a 2.5 px line (a point is larger in visual angle)
+    assert check_image(reading).result.settings.mark == "line"
