@@ -63,9 +63,10 @@ def scan_step(width: int, height: int) -> int:
     return max(1, int(round(min(width, height) / SAMPLED_LINES)))
 
 
-def scan_runs(lines: np.ndarray, values: np.ndarray):
+def scan_runs(lines: np.ndarray, values: np.ndarray, common: int | None = None):
     """Runs of equal values along each row of ``lines`` (2-D): ``(index into the
-    sorted distinct ``values``, length, row)``, as int arrays."""
+    sorted distinct ``values``, length, row)``, as int arrays. ``common``: the index
+    of the most frequent value, if known (its runs are found without a search)."""
     lines = np.ascontiguousarray(lines)
     if lines.size == 0:
         z = np.zeros(0, dtype=np.int32)
@@ -77,7 +78,13 @@ def scan_runs(lines: np.ndarray, values: np.ndarray):
     ends = np.append(starts[1:], r * w)
     row = starts // w
     ends = np.minimum(ends, (row + 1) * w)
-    idx = np.searchsorted(values, lines.ravel()[starts])
+    v = lines.ravel()[starts]
+    if common is None:
+        idx = np.searchsorted(values, v)
+    else:  # the page's runs (about half of them) need no search
+        idx = np.full(len(v), common)
+        other = np.flatnonzero(v != values[common])
+        idx[other] = np.searchsorted(values, v[other])
     return idx.astype(np.int32), (ends - starts).astype(np.int32), row.astype(np.int32)
 
 
