@@ -88,14 +88,29 @@ def explain_tints(rgb, w, flat, jab, chroma, bg: int, *, tol: float, radius: flo
         author = sc & (wc > share_ratio * w[j])
         left &= ~(same | ((d <= tol) & ~author & (a < 1.0)))
     m = np.asarray(marks)
-    best_d = np.full(n, np.inf)
     best_a = np.zeros(n)
-    for j in m:
-        d, a = _segment(rgb, rgb[j], b)
-        same = np.sqrt(((jab - jab[j]) ** 2).sum(-1)) <= radius
-        author = solid & (w > share_ratio * w[j])
-        ok = (d <= tol) & ~same & ~author & (a < 1.0) & (d < best_d)
-        best_d[ok], best_a[ok], tint_of[ok] = d[ok], a[ok], j
+    best_d = np.full(n, np.inf)
+    r = rgb - b
+    rr = (r * r).sum(-1)
+    jj = (jab * jab).sum(-1)
+    for k in range(0, len(m), 64):  # all colours against a chunk of marks at once: (n, chunk)
+        mk = m[k : k + 64]
+        dm = rgb[mk] - b
+        dd = np.maximum((dm * dm).sum(-1), 1e-9)
+        rd = r @ dm.T
+        a = np.clip(rd / dd, 0.0, 1.0)
+        d = np.sqrt(np.maximum(rr[:, None] - 2.0 * a * rd + a * a * dd, 0.0))
+        near = (d <= tol) & (a < 1.0)
+        rows = np.flatnonzero(near.any(axis=1))  # the few colours near a fan: the guards on those only
+        jm = jab[mk]
+        same = (jj[rows, None] + (jm * jm).sum(-1)[None, :] - 2.0 * (jab[rows] @ jm.T)) <= radius * radius
+        author = solid[rows, None] & (w[rows, None] > share_ratio * w[mk][None, :])
+        dr = np.where(near[rows] & ~same & ~author, d[rows], np.inf)
+        j = np.argmin(dr, axis=1)
+        dj = dr[np.arange(len(rows)), j]
+        better = dj < best_d[rows]
+        hit = rows[better]
+        best_d[hit], best_a[hit], tint_of[hit] = dj[better], a[hit, j[better]], mk[j[better]]
     tint_of[m] = -1
     tint_of[bg] = -1
     hit = np.flatnonzero(tint_of >= 0)

@@ -56,7 +56,8 @@ def _error(path, message: str):
 def _uint32_blocks(im, mode: str):
     """Yield the pixels of ``im`` as ``(rows, width)`` uint32 arrays in ``mode``
     (RGBA, RGBX or CMYK), copying block by block into one buffer that shares memory
-    with a Pillow image: C-level crop and paste, no per-pixel Python, no tobytes."""
+    with a Pillow image: a C-level paste of the whole image at an offset, which Pillow
+    clips to the block (one copy; no crop, no per-pixel Python, no tobytes)."""
     from PIL import Image
 
     w, h = im.size
@@ -67,8 +68,8 @@ def _uint32_blocks(im, mode: str):
         if buf is None or buf.shape[0] != n:
             buf = np.empty((n, w), dtype=np.uint32)
             target = Image.frombuffer(mode, (w, n), buf, "raw", mode, 0, 1)
-        try:
-            target.im.paste(im.im.crop((0, y0, w, y0 + n)), (0, 0, w, n))
+        try:  # the whole image pasted at (0, -y0): Pillow clips it to the block, one copy, no crop
+            target.im.paste(im.im, (0, -y0, w, h - y0))
         except (AttributeError, TypeError, ValueError):  # a Pillow without these internals
             part = im.crop((0, y0, w, y0 + n)).convert(mode)
             buf = np.frombuffer(part.tobytes(), dtype=np.uint32).reshape(n, w)
@@ -334,8 +335,9 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     mode = "RGBX" if im.mode == "RGB" else im.mode
     vals, cnts, flat, bvals, bcnts, (rows, cols, step) = _count_uint32(im, mode, lossy)
     size = im.size
-    lines = (scan_runs(np.concatenate(rows), vals), scan_runs(np.concatenate(cols).T, vals), step) if rows \
-        else None
+    common = int(np.argmax(cnts)) if len(cnts) else None
+    lines = (scan_runs(np.concatenate(rows), vals, common), scan_runs(np.concatenate(cols).T, vals, common), step) \
+        if rows else None
     rgba = _to_srgb(_channels(vals, mode), mode, icc, notes)
     border = _to_srgb(_channels(bvals, mode), mode, icc, [])
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),

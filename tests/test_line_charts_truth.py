@@ -1,0 +1,123 @@
+"""Line, dotted-line, point and area charts drawn here by matplotlib, read back from
+PNG and JPEG and compared with the colours matplotlib was told to draw (issue 11).
+
+Ground truth is external: the hex colours passed to matplotlib, and ΔE' computed by
+colorspacious's own CAM02-UCS (``cspace_convert(..., "sRGB255", "CAM02-UCS")``, the
+Luo, Cui & Li 2006 space: V, read in colorspacious's source), not by the project's.
+Targets from the issue: every drawn colour within ΔE' 2 of a reported one (PNG; 4
+for JPEG), no reported colour farther than that from every drawn one with more than
+0.5 % share, and the mark kind of each drawn colour right. Line widths in points are
+``width_pt * dpi / 72`` pixels (V: matplotlib's ``Line2D.set_linewidth`` and
+``savefig`` documentation).
+"""
+
+from __future__ import annotations
+
+import colorspacious
+import numpy as np
+import pytest
+from helpers import draw, panel_scatter, rgb255, thin_lines
+
+import palettecheck
+
+
+def delta_cs(a, b) -> np.ndarray:
+    """ΔE' matrix by colorspacious (external to the code under test)."""
+    ua = colorspacious.cspace_convert(np.array([rgb255(h) for h in a]), "sRGB255", "CAM02-UCS")
+    ub = colorspacious.cspace_convert(np.array([rgb255(h) for h in b]), "sRGB255", "CAM02-UCS")
+    return np.sqrt(((ua[:, None, :] - ub[None, :, :]) ** 2).sum(-1))
+
+
+def judge(reading, truth, tol):
+    """(missing drawn colours, phantom colours over 0.5 %, kind read for each drawn colour)."""
+    found = [h for h, _ in reading.colors]
+    assert found, reading
+    d = delta_cs(truth, found)
+    missing = [t for t, row in zip(truth, d) if row.min() > tol]
+    phantoms = [(h, s) for k, (h, s) in enumerate(reading.colors) if d[:, k].min() > tol and s > 0.005]
+    kinds = dict((h, k) for h, k, _ in reading.marks)
+    kind = [kinds.get(found[int(np.argmin(row))]) for row in d]
+    return missing, phantoms, kind
+
+
+LINES = {
+    "1px@100dpi": dict(width_pt=0.72, dpi=100),
+    "1px@150dpi": dict(width_pt=0.48, dpi=150),
+    "1px@200dpi-no-legend": dict(width_pt=0.36, dpi=200, legend=False),
+    "0.75pt@72dpi": dict(width_pt=0.75, dpi=72),
+    "0.75pt@100dpi": dict(width_pt=0.75, dpi=100),
+    "0.75pt@200dpi": dict(width_pt=0.75, dpi=200),
+    "horizontal": dict(direction="horizontal", legend=False),
+    "horizontal-legend": dict(direction="horizontal"),
+    "vertical": dict(direction="vertical", legend=False),
+    "vertical-legend": dict(direction="vertical"),
+    "diagonal": dict(direction="diagonal"),
+    "six-series": dict(n=6),
+    "dashed": dict(style="--", legend=False),
+    "dash-dot": dict(style="-.", width_pt=1.0),
+    "dotted-1px": dict(style=":", legend=False),
+    "dotted-1.5pt": dict(style=":", width_pt=1.5, legend=False),
+    "dotted-2pt": dict(style=":", width_pt=2.0, legend=False),
+    "dotted-1pt@200dpi-legend": dict(style=":", width_pt=1.0, dpi=200),
+}
+
+
+@pytest.mark.parametrize("case", sorted(LINES))
+def test_line_chart_png_every_colour_as_a_line(tmp_path, case):
+    fig, truth = thin_lines(**LINES[case])
+    fig.savefig(tmp_path / "c.png")
+    missing, phantoms, kind = judge(palettecheck.read_image(tmp_path / "c.png"), truth, 2.0)
+    assert not missing and not phantoms, (missing, phantoms)
+    assert kind == ["line"] * len(truth), kind
+
+
+def test_straight_diagonal_one_pixel_lines_without_a_full_pixel(tmp_path):
+    """Known limit (not met, as before this branch): a straight 1-px line at 45° with
+    no legend never covers a whole pixel, so the purest tint is what is read: five
+    colours, each measured 2.6-3.8 ΔE' from the drawn one (the target is 2), nothing
+    else reported. Asserted at the measured 4 so that a regression shows."""
+    fig, truth = thin_lines(direction="diagonal", legend=False)
+    fig.savefig(tmp_path / "c.png")
+    reading = palettecheck.read_image(tmp_path / "c.png")
+    missing, phantoms, kind = judge(reading, truth, 4.0)
+    assert len(reading.colors) == len(truth) and not missing and not phantoms
+    assert kind == ["line"] * len(truth), kind
+
+
+@pytest.mark.parametrize("kind, mark", [("bar", "area"), ("stacked", "area"), ("pie", "area"),
+                                        ("scatter", "point"), ("line", "line")])
+@pytest.mark.parametrize("fmt", ["png", "jpg"])
+def test_other_charts_every_colour_and_its_mark(tmp_path, kind, mark, fmt):
+    """Bars, wedges and translucent discs (whose truth is the disc over the page,
+    computed in helpers.over from matplotlib's alpha) keep working, PNG and JPEG
+    (quality 90); 1-px lines only as PNG (see the JPEG limit below)."""
+    if fmt == "jpg" and kind == "line":
+        pytest.skip("1-px lines in JPEG: see test_one_pixel_lines_in_jpeg_known_limit")
+    fig, bg, fg, truth = draw(kind, "light")
+    fig.savefig(tmp_path / f"c.{fmt}", **({"pil_kwargs": {"quality": 90}} if fmt == "jpg" else {}))
+    missing, phantoms, kinds = judge(palettecheck.read_image(tmp_path / f"c.{fmt}"), truth,
+                                     2.0 if fmt == "png" else 4.0)
+    assert not missing and not phantoms, (missing, phantoms)
+    assert kinds == [mark] * len(truth), kinds
+
+
+@pytest.mark.parametrize("size", [9.0, 36.0])
+def test_small_markers_on_a_panel_are_points(tmp_path, size):
+    fig, truth = panel_scatter(size=size)
+    fig.savefig(tmp_path / "p.png")
+    missing, phantoms, kinds = judge(palettecheck.read_image(tmp_path / "p.png"), truth, 2.0)
+    assert not missing and not phantoms and kinds == ["point"] * len(truth), (missing, phantoms, kinds)
+
+
+@pytest.mark.xfail(strict=True, reason="issue 11, not met: JPEG's 4:2:0 chroma subsampling leaves a "
+                   "1-px line's core pixels with about 40 % of its chroma (Cb 13 of 31.6 measured on "
+                   "#7b5ea7 at quality 90) and clips the chroma halo at the white page; no distinct "
+                   "colour holds the drawn one, so the coverage model (lossless only) cannot find it")
+@pytest.mark.parametrize("case", ["1px@100dpi", "horizontal", "dotted-1.5pt"])
+def test_one_pixel_lines_in_jpeg_known_limit(tmp_path, case):
+    fig, truth = thin_lines(**LINES[case])
+    fig.savefig(tmp_path / "c.jpg", pil_kwargs={"quality": 90})
+    reading = palettecheck.read_image(tmp_path / "c.jpg")
+    assert reading.colors
+    missing, phantoms, kind = judge(reading, truth, 4.0)
+    assert not missing and not phantoms and kind == ["line"] * len(truth)
