@@ -80,9 +80,10 @@ EDGE_MIX = (0.02, 0.9)
 #: matplotlib's image charts: edge rows hold 1/10-1/30 of their cell's flat fill,
 #: a true cell that mixes to another 1/2-1/5 (practical choice).
 EDGE_FLAT_RATIO = 6.0
-#: Sources are looked for within this sRGB distance (0-255) of the colour, the
-#: farthest a 90 % mix with black or white can move a colour.
-EDGE_REACH = 0.9 * 255.0 * math.sqrt(3.0)
+#: Sources are looked for within this ΔE' of the colour: an edge's mix is a small
+#: share of the frame (measured on matplotlib's image charts while writing this:
+#: 5-10 % of black, 2-5 ΔE' from its cell), so nearby colours only (practical choice).
+EDGE_REACH = 12.0
 
 def segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
     """Distance from point ``x`` to each segment ``p[i] + t (q[i] - p[i])``, t in [lo, hi]."""
@@ -332,15 +333,16 @@ def edge_blends(cand, rgb, jab, flat, sources, grey_rgb, tol: float = EXTEND_BLE
     of ``x``), a grey ``g`` and ``a`` in ``EDGE_MIX``, mixed in sRGB-encoded values
     or in linear light, within ``tol`` sRGB (0-255); of several sources the one
     with the most flat fill is given. Vectorised over (candidate, source,
-    grey) triples, the sources first cut to those within reach of each candidate."""
+    grey) triples, the sources first cut to those within ``EDGE_REACH`` ΔE' of each candidate."""
     cand, sources = np.asarray(cand, dtype=int), np.asarray(sources, dtype=int)
     grey_rgb = np.asarray(grey_rgb, dtype=float).reshape(-1, 3)
     out = np.full(len(cand), -1)
     if not len(cand) or not len(sources) or not len(grey_rgb):
         return out
     x, s = rgb[cand], rgb[sources]
-    gap = np.sqrt(((x[:, None, :] - s[None, :, :]) ** 2).sum(-1))
-    ci, si = np.nonzero((gap <= EDGE_REACH) & (gap > tol)
+    xj, sj = jab[cand], jab[sources]
+    reach = (xj * xj).sum(-1)[:, None] + (sj * sj).sum(-1)[None, :] - 2.0 * (xj @ sj.T) <= EDGE_REACH ** 2
+    ci, si = np.nonzero(reach & (np.abs(x[:, None, :] - s[None, :, :]).max(-1) > tol)
                         & (flat[sources][None, :] >= EDGE_FLAT_RATIO * flat[cand][:, None]))
     if not len(ci):
         return out
@@ -383,6 +385,9 @@ def step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat, grey_rgb) -> 
     grey_rgb = np.asarray(grey_rgb, dtype=float).reshape(-1, 3)
     filled = flat > 0
     cand = np.flatnonzero(filled & np.isin(group, np.asarray(picked, dtype=int)))
+    top = np.zeros(int(group.max()) + 2)
+    np.maximum.at(top, group[cand], flat[cand])
+    cand = cand[flat[cand] >= END_MIN_FLAT * top[group[cand]]]  # the only members ever shown
     source = np.full(len(rgb), -1)
     source[cand] = edge_blends(cand, rgb, jab, flat, np.flatnonzero(filled & np.isin(group, path)), grey_rgb)
 
