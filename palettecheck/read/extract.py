@@ -519,7 +519,11 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if found is not None:
         path, along = found
         picked, pshare, kind = sample_path(g_jab, path, along, g_jab[0])
-        shown = step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat_drawn, g_rgb[outline])
+        # greys a cell's or a bar row's edge may be mixed with: the page and every grey
+        # with some share, flat or not (the axes' frame is a line, the bar's outline too)
+        edge_greys = [k for k in range(len(seeds)) if g_chroma[k] < NEUTRAL_CHROMA
+                      and (k == 0 or share[k] >= PARENT_MIN_SHARE)]
+        shown = step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat_drawn, g_rgb[edge_greys])
         colors = tuple((to_hex(c), float(s / plot)) for c, s in zip(shown, pshare))
         on_path = set(int(k) for k in path)
         neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)
