@@ -287,9 +287,11 @@ def review_paths(paths, settings: Settings | None = None, *, whole: bool = False
     for f in files:
         try:
             if whole or f.suffix.lower() == ".svg":
-                readings = [read_image(f, fallback, min_share=share, merge_radius=radius)]
+                readings = [read_image(f, fallback, min_share=share, merge_radius=radius,
+                                       viewing=settings.viewing_on)]
             else:
-                readings = [r for _, r in read_panels(f, fallback, min_share=share, merge_radius=radius)]
+                readings = [r for _, r in read_panels(f, fallback, min_share=share, merge_radius=radius,
+                                                      viewing=settings.viewing_on)]
         except ReadError as e:
             errors.append((str(f), str(e)))
             continue
