@@ -221,16 +221,34 @@ def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
     if errors & {"distinguishable", "near-duplicate"}:
         lengths = {}
         for v in s.visions:
-            views = [perceive_colors(np.clip(from_ucs(p, s.viewing), 0, 255), s, (v,))[0] for p in paths]
+            rgbs = [np.clip(from_ucs(p, s.viewing), 0, 255) for p in paths]
+            if s.by_delta_e:
+                views = [perceive_colors(rgb, s, (v,))[0] for rgb in rgbs]
+            else:  # the path's length in the size model's units, at its worst judged severity
+                views = [z for rgb in rgbs for z in perceive_views(rgb, s, (v,))[2]]
             lengths[v] = min(float(np.linalg.norm(np.diff(u, axis=0), axis=-1).sum()) for u in views)
         v = min(lengths, key=lengths.get)
-        steps = int(lengths[v] // s.error_delta_e)
+        line = s.error_delta_e if s.by_delta_e else s.p_error_kind
+        steps = int(lengths[v] // line)
         most = steps + 1 if gen.kind == "sequential" else 2 * steps + 1
         arm = " per arm" if gen.kind == "diverging" else ""
-        out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under "
-                   f"every vision, but the J' band {min(near, far):.0f}-{max(near, far):.0f} is only about "
-                   f"{lengths[v]:.0f} ΔE' long{arm} under {v}: at most about {most} colours fit (smallest "
-                   f"step now {gen.min_delta_e:.1f}); use fewer colours or widen --lightness")
+        band = f"the J' band {min(near, far):.0f}-{max(near, far):.0f}"
+        if s.by_delta_e:
+            out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under "
+                       f"every vision, but {band} is only about {lengths[v]:.0f} ΔE' long{arm} under {v}: at "
+                       f"most about {most} colours fit (smallest step now {gen.min_delta_e:.1f}); use fewer "
+                       "colours or widen --lightness")
+        else:
+            out.append(f"binding: the number of steps. Neighbouring colours must each be noticed by "
+                       f"{100 * line:.0f} % of readers under every vision, but {band} holds only about "
+                       f"{lengths[v] / line:.1f} such steps{arm} under {v}: at most about {most} colours fit "
+                       f"(closest neighbours now noticed by {100 * gen.min_noticed:.0f} %); use fewer colours, "
+                       "a larger --mark, or widen --lightness")
+    if "arms" in errors:
+        out.append("binding: the two arms. Mirrored steps on either side of the midpoint stay too alike under "
+                   "some vision even with the far ends pulled in; choose two base colours (--from) that "
+                   "differ under every colour-vision deficiency (a blue and an orange do), or use a larger "
+                   "--mark")
     if "contrast" in errors:
         for f in gen.check.findings:
             if f.check == "contrast":
