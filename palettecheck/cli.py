@@ -632,8 +632,8 @@ def simulate_cmd(image, output, severity, cvd_model, outline):
         result = check_sources([image], settings)
         merges = {v: [] for v in result.settings.visions}
         for pair in result.pairs():
-            for vision, d in pair["delta_e"].items():
-                if d < result.settings.error_delta_e:
+            for vision in pair["delta_e"]:
+                if result.perceived.below(vision)[0][pair["a"], pair["b"]]:
                     merges.setdefault(vision, []).append((result.palette[pair["a"]].hex, result.palette[pair["b"]].hex))
     out = Path(output)
     try:
