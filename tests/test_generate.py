@@ -223,6 +223,8 @@ def test_print_safe_includes_grey_in_the_minimum():
 
 
 @pytest.mark.parametrize("settings", [Settings(mark="line"), Settings(backgrounds=("#15191f",)),
+                                      Settings(backgrounds=("#000000",)),
+                                      Settings(backgrounds=("#1b1e23",), mark="line"),
                                       Settings(backgrounds=("#ffffff", "#f1efe8"), mark="point")])
 def test_generated_palettes_pass_check_under_the_same_options(settings):
     for gen in (categorical(5, settings=settings), sequential(6, settings=settings),
