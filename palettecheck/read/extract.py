@@ -454,6 +454,12 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if viewing is None:  # the default settings': conditions that follow the page found
         viewing = Settings().viewing_on
     viewing_of = viewing if callable(viewing) else (lambda _rgb: viewing)
+    if counts.lossy:
+        # a lossy file's colours are grouped by how far compression noise moves code
+        # values, which does not depend on how the page adapts the eye: the merge radius
+        # and noise allowances were set at the sRGB reference, so it is read there (the
+        # check still measures the colours read under the page's conditions)
+        viewing_of = lambda _rgb: SRGB_VIEWING  # noqa: E731
     bg_rgb, bg_from = find_background(counts, fallback_background, viewing_of(fallback_background))
     viewing = viewing_of(bg_rgb)
     notes = list(counts.notes)
@@ -487,12 +493,6 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     # compression noise is strongest where most pixels are: around the background
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
     noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
-    if counts.lossy and viewing != SRGB_VIEWING:
-        # compression noise is a matter of code values, not of how the page adapts the
-        # eye: near a dark page the check's conditions spread it over more ΔE', so the
-        # allowance around the background is measured as at the sRGB reference
-        ref = to_ucs(rgb, SRGB_VIEWING)
-        noise |= np.sqrt(((ref - ref[bg_i]) ** 2).sum(-1)) <= 2.0 * merge_radius
     group, seeds = _group(jab, w, merge_radius, bg_i, seed_min=max(total * 2e-5, 1e-12),
                           first_radius=merge_radius * (2.0 if counts.lossy else 1.0), to_first=noise,
                           max_seeds=None if counts.lossy else MAX_SEED_CANDIDATES)
