@@ -148,8 +148,8 @@ def test_ramp_contrast_shortfall_is_explained():
 
 @pytest.fixture(scope="module")
 def eight():
-    """n = 8 on white at the default budget, and with 20x the budget (computed once)."""
-    return categorical(8, seed=0), categorical(8, seed=0, budget=20 * DEFAULT_BUDGET)
+    """n = 8 on white at the default budget (computed once)."""
+    return categorical(8, seed=0)
 
 
 def random_draws(problem, count, seed):
@@ -168,14 +168,12 @@ def test_categorical_eight_near_best_and_beats_random(eight):
     model's noticeable fraction F) over normal, protanopia, deuteranopia and
     tritanopia, at each deficiency's worst severity.
 
-    Properties, not recorded figures: the default budget comes within 5 % of 20x the
-    budget (the goal also keeps grey-view pairs apart, so a larger budget need not
-    raise the minimum), beats the best of 200 random draws from the same constrained
-    gamut (J' 20-95, M' >= 10, 3:1 on white), and the palette passes the check
-    without a warning about its pairs.
+    Properties, not recorded figures: the palette beats the best of 200 random draws
+    from the same constrained gamut (J' 20-95, M' >= 10, 3:1 on white) and passes the
+    check without a warning about its pairs (the 20x-budget comparison is in the slow
+    set: test_categorical_eight_near_twenty_times_the_budget).
     """
-    gen, big = eight
-    assert gen.min_noticed >= 0.95 * big.min_noticed
+    gen = eight
     problem = categorical_problem(8)
     _, lows = measure(problem, random_draws(problem, 200, seed=2024))
     assert gen.min_noticed > lows.max() / per_fraction(problem.settings)
@@ -189,8 +187,16 @@ def test_categorical_eight_near_best_and_beats_random(eight):
     assert gen.passed and {f.check for f in gen.check.findings if f.severity != "info"} <= {"grey"}
 
 
+@pytest.mark.slow
+def test_categorical_eight_near_twenty_times_the_budget(eight):
+    """The default budget comes within 5 % of 20x the budget (the goal also keeps
+    grey-view pairs apart, so a larger budget need not raise the minimum)."""
+    big = categorical(8, seed=0, budget=20 * DEFAULT_BUDGET)
+    assert eight.min_noticed >= 0.95 * big.min_noticed
+
+
 def test_categorical_respects_the_constrained_gamut(eight):
-    gen = eight[0]
+    gen = eight
     problem = categorical_problem(8)
     seen = problem.candidates(np.array([parse_color(h)[0] for h in gen.colors]))
     assert problem.region.allows(seen.jab, seen.contrast).all()
@@ -198,7 +204,7 @@ def test_categorical_respects_the_constrained_gamut(eight):
 
 
 def test_categorical_order_puts_the_most_different_first(eight):
-    gen = eight[0]
+    gen = eight
     # in the units the check decides by (the size model's fraction F by default)
     d = np.min([gen.check.perceived.measure(v) for v in gen.check.settings.visions], axis=0)
     first = d[0, 1]
