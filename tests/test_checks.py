@@ -355,6 +355,21 @@ def test_score_is_100_only_without_warnings():
     assert (r.score.value == 100) == (not checks_of(r, "error") and not checks_of(r, "warning"))
 
 
+@pytest.mark.parametrize("colors", [("#b8432f", "#4d8a34", "#1d3b6e"),  # red/green merge: an error
+                                    ("#1d3b6e", "#d0621a", "#7b52ae", "#1f8a7a", "#9c1d4f"),
+                                    ("#1d3b6e", "#d0621a")])
+def test_the_printed_score_basis_adds_up(colors):
+    """The words the reports print for the score ("49 minus these ..." or "100 minus
+    these ...") give the score from the listed deductions (the rule of judge/score.py's
+    docstring, which the reports must not misstate)."""
+    sc = check_palette(pal(*colors)).score
+    taken = sum(pts for _, pts, _ in sc.breakdown)
+    start = 49 if sc.basis.startswith("49 minus") else 100
+    expected = max(0, int(np.floor(start - taken))) if start == 49 else int(np.floor(100 - min(50.0, taken)))
+    assert sc.value == expected
+    assert sc.explain()[0].startswith(sc.basis) or not sc.breakdown
+
+
 def test_fail_under():
     r = check_palette(pal("#173f73", "#d0621a", "#7b52ae", "#1f8a7a", "#9c1d4f"), Settings(fail_under=99))
     assert r.score.value < 99 and not r.passed

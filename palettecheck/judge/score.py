@@ -50,10 +50,18 @@ class Score:
     #: (check, points deducted, number of findings), largest first
     breakdown: tuple[tuple[str, float, int], ...]
 
+    @property
+    def basis(self) -> str:
+        """How the score follows from the deductions, in words."""
+        if self.value < PASS_FLOOR:
+            return f"{PASS_FLOOR - 1} minus these, rounded down (any error keeps the score below {PASS_FLOOR})"
+        return "100 minus these (at most 50), rounded down"
+
     def explain(self) -> list[str]:
         if not self.breakdown:
             return ["100: no warning and no error"]
-        return [f"-{pts:.1f} {check} ({n} finding{'s' if n != 1 else ''})" for check, pts, n in self.breakdown]
+        return [self.basis + ":", *(f"-{pts:.1f} {check} ({n} finding{'s' if n != 1 else ''})"
+                         for check, pts, n in self.breakdown)]
 
 
 def score_findings(findings: list[Finding]) -> Score:

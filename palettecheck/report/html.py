@@ -331,7 +331,7 @@ def check_body(result, level: int = 2, figures=None) -> list[str]:
         out += ["<table>", '<tr><th>check</th><th class="num">points taken off</th><th class="num">findings</th></tr>']
         out += [f'<tr><td>{_e(c)}</td><td class="num">{pts:.1f}</td><td class="num">{n}</td></tr>'
                 for c, pts, n in result.score.breakdown]
-        out += [f'<tr><th>score (100 minus these, rounded down)</th><th class="num">{result.score.value}</th>'
+        out += [f'<tr><th>score ({_e(result.score.basis)})</th><th class="num">{result.score.value}</th>'
                 "<th></th></tr>", "</table>"]
     else:
         out.append("<p>100: no warning and no error.</p>")

@@ -189,7 +189,7 @@ def check_body(result, level: int = 2, figures=None) -> list[str]:
     if result.score.breakdown:
         out += _table(("check", "points taken off", "findings"),
                       [(c, f"{pts:.1f}", str(n)) for c, pts, n in result.score.breakdown])
-        out.append(f"\nScore: 100 minus these, rounded down: {result.score.value}.")
+        out.append(f"\nScore: {result.score.basis}: {result.score.value}.")
     else:
         out.append("100: no warning and no error.")
 
