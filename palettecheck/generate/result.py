@@ -18,6 +18,7 @@ import numpy as np
 from ..color import Palette, Swatch, parse_color
 from ..errors import GenerateError
 from ..judge.result import CheckResult, check_palette
+from ..perceive.names import color_names
 from ..perceive.palette import pair_indices
 
 __all__ = ["GenerateError", "Generated", "finish", "listed_colormap"]
@@ -71,7 +72,10 @@ class Generated:
 
 
 def finish(kind, hexes, settings, locked, recipe, seed=None) -> Generated:
-    palette = Palette(tuple(Swatch(h, None, bool(lk)) for h, lk in zip(hexes, locked)), f"generated {kind}")
+    """The generated colours checked, each under a plain name (:func:`color_names`) that
+    every report and palette file then shows."""
+    names = color_names(hexes)
+    palette = Palette(tuple(Swatch(h, n, bool(lk)) for h, n, lk in zip(hexes, names, locked)), f"generated {kind}")
     result = check_palette(palette, settings)
     p = result.perceived
     visions = list(settings.visions) + (["grey-print"] if settings.print_safe else [])
