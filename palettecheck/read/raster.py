@@ -45,6 +45,10 @@ FLAT_RUN = 3
 #: In lossy files, neighbours differing by at most this much per channel (0-255)
 #: count as equal when looking for flat fill (compression noise).
 LOSSY_STEP = 6
+#: Experimental, off: decode JPEGs as YCbCr and rebuild thin marks' chroma
+#: (read/chroma.py). On, it lifts 1-px line recall in JPEG but breaks a translucent
+#: scatter and a dark pie (issue 11, branch jpeg-lines); kept off until those pass.
+REBUILD_THIN_JPEG = False
 #: Pixels per block of rows read at once.
 _BLOCK = 1 << 20
 
@@ -182,8 +186,9 @@ def _channels(values: np.ndarray, mode: str) -> np.ndarray:
     return out
 
 
-def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list) -> np.ndarray:
-    """``(n, 4)`` RGBA (sRGB 0-255) from distinct RGBA/RGBX/CMYK values."""
+def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list, ycc: bool = False) -> np.ndarray:
+    """``(n, 4)`` RGBA (sRGB 0-255) from distinct RGBA/RGBX/CMYK values (``ycc``: the
+    RGBX values hold a JPEG decoder's Y, Cb, Cr, converted here by Pillow)."""
     from PIL import Image
 
     alpha = quad[:, 3].copy() if mode == "RGBA" else np.full(len(quad), 255.0)
@@ -191,6 +196,8 @@ def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list) -> np.
         return np.zeros((0, 4))
     raw = np.ascontiguousarray(np.rint(quad).astype(np.uint8))
     strip = Image.frombytes(mode, (len(quad), 1), raw.tobytes())
+    if ycc:
+        strip = Image.frombytes("YCbCr", (len(quad), 1), np.ascontiguousarray(raw[:, :3]).tobytes())
     strip = strip if mode == "CMYK" else strip.convert("RGB")
     converted = apply_icc(strip, icc, notes) if icc else None
     if converted is None:
@@ -319,6 +326,11 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     if getattr(im, "is_animated", False):  # n_frames would walk every frame of a GIF
         notes.append("animated image: only the first frame is read")
     icc = im.info.get("icc_profile") or None
+    # a JPEG's YCbCr as decoded, before the RGB conversion clips it: thin marks' chroma
+    # is rebuilt from it (read/chroma.py); distinct values are converted afterwards
+    ycc = REBUILD_THIN_JPEG and lossy and im.format == "JPEG" and im.mode == "RGB" and im.info.get("adobe_transform", 1) != 0 \
+        and getattr(im, "draft", None) is not None and im.draft("YCbCr", im.size) is not None \
+        and im.mode == "YCbCr"
     im.load()
     if im.mode in ("I;16", "I;16L", "I;16B", "I;16N", "I", "F"):
         a = np.asarray(im, dtype=float)
@@ -330,18 +342,20 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
         icc = None
     if im.mode in ("P", "PA", "LA", "La", "RGBa"):
         im = im.convert("RGBA")
-    elif im.mode in ("L", "1") or im.mode not in ("RGB", *_DIRECT):
+    elif im.mode in ("L", "1") or im.mode not in ("RGB", "YCbCr", *_DIRECT):
         im = im.convert("RGB")
-    mode = "RGBX" if im.mode == "RGB" else im.mode
+    mode = "RGBX" if im.mode in ("RGB", "YCbCr") else im.mode
     vals, cnts, flat, bvals, bcnts, (rows, cols, step) = _count_uint32(im, mode, lossy)
     size = im.size
     common = int(np.argmax(cnts)) if len(cnts) else None
     lines = (scan_runs(np.concatenate(rows), vals, common), scan_runs(np.concatenate(cols).T, vals, common), step) \
         if rows else None
-    rgba = _to_srgb(_channels(vals, mode), mode, icc, notes)
-    border = _to_srgb(_channels(bvals, mode), mode, icc, [])
+    rgba = _to_srgb(_channels(vals, mode), mode, icc, notes, ycc)
+    border = _to_srgb(_channels(bvals, mode), mode, icc, [], ycc)
+    ycc_lines = (np.concatenate(rows), np.ascontiguousarray(np.concatenate(cols).T)) if ycc and rows else None
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),
-                       exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines)
+                       exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines,
+                       ycc_lines=ycc_lines)
 
 
 def read_counts(path, max_pixels: int = MAX_PIXELS) -> ColorCounts:

@@ -1,0 +1,187 @@
+"""Thin marks in JPEG: their colour rebuilt from luma and the chroma they spread.
+
+A JPEG coder usually keeps chroma (Cb, Cr) at half resolution both ways (4:2:0,
+ITU-T T.81 / JFIF: V, the sampling factors read by Pillow) while luma (Y) stays
+full resolution. A 1-pixel line keeps its luma but shares its chroma with the
+2x2 block and, after upsampling, with the neighbours: no pixel holds the drawn
+colour, so a reader of distinct colours finds only washed-out tints.
+
+What is kept is the chroma's *sum* across the mark, and the luma, nearly exactly.
+Along a sampled row or column, one crossing of a mark over a base ``b`` (the page
+or a plot panel) of coverage profile ``a_i`` gives (mixing in sRGB-encoded values,
+which YCbCr is a linear map of)::
+
+    D = Σ (Y_b - Y_i) = F (Y_b - Y_m)      S = Σ (C_i - C_b) = F (C_m - C_b)
+
+with ``F = Σ a_i``. So ``r = S / D`` is the mark's chroma per unit of luma
+deficit, the same for every crossing whatever its coverage, and the mark's colour
+is ``(Y_m, C_b + r (Y_b - Y_m))`` with ``Y_m`` read from the darkest pixels of
+its crossings (those fully covered). Crossings are read from the decoder's YCbCr
+output (before its conversion to RGB clips the chroma halo at a white page).
+
+Everything here works on the sampled scanlines (about 135 rows and columns), not
+on the image. Thresholds are practical choices, no source.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+__all__ = ["thin_marks", "YCC"]
+
+#: JPEG's full-range BT.601 RGB -> YCbCr (ITU-T T.871), offsets dropped.
+YCC = np.array([[0.299, 0.587, 0.114], [-0.168736, -0.331264, 0.5], [0.5, -0.418688, -0.081312]])
+#: A pixel is off the base when its luma differs by more than this, or a chroma by more than ``OFF_C``.
+OFF_Y = 6
+OFF_C = 3
+#: Pixels taken on each side of a crossing (upsampled chroma spreads about this far).
+HALO = 2
+#: Crossings longer than this (pixels, halo included) are areas, left to the colour counts.
+MAX_CROSSING = 14
+#: Crossings with a smaller luma deficit than this (sum, 0-255 per pixel) are noise.
+MIN_DEFICIT = 15.0
+#: Crossings whose chroma ratios lie within this of a stronger one's belong to its mark.
+RATIO_RADIUS = 0.05
+#: Marks whose crossings carry less than this share of the strongest mark's luma
+#: deficit are crossings of two marks or of a mark and text, not marks.
+MIN_SUPPORT = 0.08
+#: The darkest pixels of a mark: this quantile of its crossings' extreme luma.
+DARK_QUANTILE = 0.15
+
+
+def _crossings(lines: np.ndarray, base: np.ndarray):
+    """``(r (n, 2), D, extreme luma)`` of each thin crossing of ``base`` along the rows
+    of ``lines`` (uint32 packed Y, Cb, Cr in bytes 0-2)."""
+    if lines.size == 0:
+        return np.zeros((0, 2)), np.zeros(0), np.zeros(0)
+    ch = lines.view(np.uint8).reshape(lines.shape[0], lines.shape[1], 4)
+    y = ch[..., 0].astype(np.int16)
+    dy = int(round(base[0])) - y
+    dcb = ch[..., 1].astype(np.int16) - int(round(base[1]))
+    dcr = ch[..., 2].astype(np.int16) - int(round(base[2]))
+    off = (np.abs(dy) > OFF_Y) | (np.abs(dcb) > OFF_C) | (np.abs(dcr) > OFF_C)
+    m = off.copy()
+    for s in range(1, HALO + 1):
+        m[:, s:] |= off[:, :-s]
+        m[:, :-s] |= off[:, s:]
+    m[:, 0] = m[:, -1] = False  # a crossing cut by the image edge is not whole
+    flat = m.ravel()
+    edge = np.flatnonzero(flat[1:] != flat[:-1]) + 1
+    starts, ends = edge[::2], edge[1::2]
+    if len(starts) == 0:
+        return np.zeros((0, 2)), np.zeros(0), np.zeros(0)
+    keep = (ends - starts) <= MAX_CROSSING
+    starts, ends = starts[keep], ends[keep]
+    if len(starts) == 0:
+        return np.zeros((0, 2)), np.zeros(0), np.zeros(0)
+    bounds = np.stack([starts, ends], 1).ravel()
+    def total(a):
+        return np.add.reduceat(a.ravel().astype(float), bounds)[::2]
+    d = total(dy)
+    s = np.stack([total(dcb), total(dcr)], 1)
+    lo = np.minimum.reduceat(y.ravel(), bounds)[::2].astype(float)
+    hi = np.maximum.reduceat(y.ravel(), bounds)[::2].astype(float)
+    ok = np.abs(d) >= MIN_DEFICIT
+    d, s, lo, hi = d[ok], s[ok], lo[ok], hi[ok]
+    return s / d[:, None], d, np.where(d > 0, lo, hi)
+
+
+def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarray,
+               min_crossings: int = 3):
+    """Colours (YCbCr, ``(k, 3)``) of the thin marks crossing the sampled rows and
+    columns over ``base_ycc`` (its Y, Cb, Cr, 0-255), and the luma deficit their
+    crossings carry (their support)."""
+    parts = [_crossings(lines, base_ycc) for lines in (row_lines, col_lines)]
+    r = np.concatenate([p[0] for p in parts])
+    d = np.concatenate([p[1] for p in parts])
+    ext = np.concatenate([p[2] for p in parts])
+    if len(d) == 0:
+        return np.zeros((0, 3)), np.zeros(0)
+    wt = np.abs(d)
+    order = np.argsort(-wt, kind="stable")
+    seeds: list[int] = []
+    label = np.full(len(d), -1)
+    for i in order:  # greedy: the strongest crossing left opens a mark; those near its ratio join it
+        if label[i] >= 0:
+            continue
+        near = (label < 0) & (np.sign(d) == np.sign(d[i])) & \
+            (((r - r[i]) ** 2).sum(-1) <= RATIO_RADIUS ** 2)
+        if near.sum() < min_crossings:
+            label[i] = -2
+            continue
+        label[near] = len(seeds)
+        seeds.append(int(i))
+    out = []
+    for k in range(len(seeds)):
+        mine = label == k
+        rk = (r[mine] * wt[mine, None]).sum(0) / wt[mine].sum()
+        dark = d[seeds[k]] > 0
+        e = np.sort(ext[mine])
+        ym = float(np.quantile(e, DARK_QUANTILE if dark else 1.0 - DARK_QUANTILE))
+        c = base_ycc[1:] + rk * (base_ycc[0] - ym)
+        out.append([ym, *c])
+    support = np.bincount(label[label >= 0], weights=wt[label >= 0], minlength=len(seeds))
+    return np.asarray(out, dtype=float).reshape(-1, 3), support
+
+
+def ycc_to_rgb(ycc: np.ndarray) -> np.ndarray:
+    """Inverse of :data:`YCC` (offsets 128 on the chroma), not clipped."""
+    c = np.asarray(ycc, dtype=float).copy()
+    c[..., 1:] -= 128.0
+    return c @ np.linalg.inv(YCC).T
+
+
+def rgb_to_ycc(rgb: np.ndarray) -> np.ndarray:
+    out = np.asarray(rgb, dtype=float) @ YCC.T
+    out[..., 1:] += 128.0
+    return out
+
+
+#: A distinct colour within this YCbCr distance of a thin mark's washed-out tints
+#: (luma and chroma each blended by their own amount) is one of them.
+TINT_TOLERANCE = 8.0
+
+
+def explain_thin(rgb: np.ndarray, w: np.ndarray, flat: np.ndarray, base: int, marks_rgb: np.ndarray,
+                 author_min: float, near_base: np.ndarray):
+    """Move the pixels of a JPEG's washed-out thin-mark tints to the rebuilt marks.
+
+    A tint of mark ``m`` over base ``b`` after 4:2:0 coding is ``b + t1 (luma of m - b)
+    + t2 (chroma of m - b)``, t1 and t2 in [0, 1] apart (luma full resolution, chroma
+    spread): each such colour counts as coverage ``t1`` of the mark (its luma share)
+    and ``1 - t1`` of the base.
+
+    :param marks_rgb: ``(k, 3)`` rebuilt mark colours, appended after ``rgb``.
+    :param author_min: colours mostly in flat fill and covering more than this are an
+        author's colours (a pale bar), never tints.
+    :param near_base: colours left to the base (noise around it).
+    :returns: ``(w, flat, tint_of)`` for ``rgb`` followed by the marks.
+    """
+    n, k = len(rgb), len(marks_rgb)
+    w = np.append(w.astype(float), np.zeros(k))
+    flat = np.append(flat.astype(float), np.zeros(k))
+    tint_of = np.full(n + k, -1)
+    if not k:
+        return w, flat, tint_of
+    x = rgb_to_ycc(rgb) - rgb_to_ycc(rgb[base])
+    d = rgb_to_ycc(marks_rgb) - rgb_to_ycc(rgb[base])  # (k, 3)
+    dy = np.where(np.abs(d[:, 0]) > 1e-6, d[:, 0], 1e-6)
+    t1 = np.clip(x[:, :1] / dy[None, :], 0.0, 1.0)  # (n, k)
+    cc = np.maximum((d[:, 1:] ** 2).sum(-1), 1e-6)
+    t2 = np.clip((x[:, 1:] @ d[:, 1:].T) / cc[None, :], 0.0, 1.0)
+    res_y = x[:, :1] - t1 * d[None, :, 0]
+    res_c = ((x[:, None, 1:] - t2[..., None] * d[None, :, 1:]) ** 2).sum(-1)
+    dist = np.sqrt(res_y ** 2 + res_c)
+    j = np.argmin(dist, axis=1)
+    rows = np.arange(n)
+    a = t1[rows, j]
+    hit = (dist[rows, j] <= TINT_TOLERANCE) & (a < 0.97) & ~near_base & ~((flat >= 0.5 * w)[:n] & (w[:n] > author_min))
+    hit[base] = False
+    hit &= w[:n] > 0
+    idx = np.flatnonzero(hit)
+    tint_of[idx] = n + j[idx]
+    np.add.at(w, n + j[idx], a[idx] * w[idx])
+    w[base] += float(((1.0 - a[idx]) * w[idx]).sum())
+    w[idx] = 0.0
+    flat[idx] = 0.0
+    return w, flat, tint_of
