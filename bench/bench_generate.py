@@ -56,16 +56,28 @@ def main() -> None:
     t_big = time.perf_counter() - t0
     p_cat = process(["categorical", "-n", "10", "--keep", KEPT[0], "--keep", KEPT[1]])
     print(f"categorical n=10, 2 kept, budget {DEFAULT_BUDGET:>4}: {t_cat:6.2f} s library, {p_cat:6.2f} s process;"
-          f" smallest ΔE' {cat.min_delta_e:5.2f}, score {cat.check.score.value}  (target <= 3 s)")
+          f" smallest F {cat.min_noticed:5.3f} (ΔE' {cat.min_delta_e:5.2f}), score {cat.check.score.value},"
+          f" passes {cat.passed}  (target <= 3 s)")
     print(f"categorical n=10, 2 kept, budget {20 * DEFAULT_BUDGET:>4}: {t_big:6.2f} s library"
-          f"                  ; smallest ΔE' {big.min_delta_e:5.2f}, score {big.check.score.value}")
-    print(f"RATIO smallest ΔE' default / 20x budget = {cat.min_delta_e / big.min_delta_e:.3f}; "
+          f"                  ; smallest F {big.min_noticed:5.3f} (ΔE' {big.min_delta_e:5.2f}), score "
+          f"{big.check.score.value}")
+    # F: the size model's noticeable fraction, what the default verdict and the search decide by
+    print(f"RATIO smallest F default / 20x budget = {cat.min_noticed / big.min_noticed:.3f}; "
           f"time 20x / default = {t_big / t_cat:.1f}")
     for name, fn, args in (("sequential n=9 ", lambda: sequential(9), ["sequential", "-n", "9"]),
                            ("diverging n=11 ", lambda: diverging(11), ["diverging", "-n", "11"])):
         t, gen = timed(fn, 5)
         print(f"{name}: {t * 1e3:6.1f} ms library, {process(args):6.2f} s process; "
-              f"score {gen.check.score.value}  (target well under 0.5 s)")
+              f"score {gen.check.score.value}, passes {gen.passed}  (target well under 0.5 s)")
+    from palettecheck.config import Settings
+
+    for bg in ("#ffffff", "#1b1e23", "#000000"):  # light and dark pages: do they pass the default check?
+        s = Settings(backgrounds=(bg,))
+        t = time.perf_counter()
+        made = [categorical(6, settings=s), sequential(9, settings=s), diverging(9, settings=s), diverging(11, settings=s)]
+        took = time.perf_counter() - t
+        print(f"on {bg}: categorical 6, sequential 9, diverging 9 and 11 pass: {[g.passed for g in made]} "
+              f"({took:.2f} s for the four)")
 
 
 if __name__ == "__main__":

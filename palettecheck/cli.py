@@ -90,15 +90,16 @@ def common_options(f=None, *, formats=("text", "json"), format_help="Output form
                      metavar="PX", help="Real mark size in pixels (seen from 60 cm at 96 px/in; clamped to "
                                         "the size model's fitted 1/3-6 degrees, with a note)."),
         click.option("--size-model", type=click.Choice(("delta_e", "stone")), default=None,
-                     help="What decides a pair: ΔE' against the mean size step (default), or the "
-                          "per-axis CIELAB rule of Stone et al. 2014."),
+                     help="What decides a pair: the per-axis CIELAB rule of Stone et al. 2014 (default), "
+                          "or ΔE' against the mean of its three steps at p 0.5 (the earlier rule)."),
         click.option("--severity", type=finite(0, 1), default=None,
                      help="Pin the CVD severity, 0-1 (default: the worst over 0.1-1.0)."),
         click.option("--cvd-model", type=click.Choice(CVD_MODELS), default=None,
                      help="CVD simulation: Machado et al. 2009 (default) or Brettel et al. 1997, "
                           "the better-founded model for tritanopia."),
         click.option("--min-delta-e", type=finite(min=0, min_open=True), default=None,
-                     help="ΔE' below which a pair is an error (default: set by --mark)."),
+                     help="ΔE' below which a pair is an error, replacing the size model (default: "
+                          "the size model decides, at the mark's size)."),
         click.option("--print-safe", is_flag=True, default=None,
                      help="Treat pairs that merge in grey as errors, not warnings."),
         click.option("--fail-under", type=finite(0, 100), default=None,
@@ -334,7 +335,8 @@ def _review(paths, settings, approved, whole, kind, backgrounds, include_neutral
     from .read.images import background_rgb
     from .report.display import render_display
 
-    palette = read_sources([approved], background_rgb(settings.backgrounds[0])) if approved else None
+    palette = (read_sources([approved], background_rgb(settings.backgrounds[0]), viewing=settings.viewing_on)
+               if approved else None)
     review = review_paths(paths, settings, whole=whole, approved=palette, kind=kind,
                           backgrounds=settings.backgrounds if backgrounds else (), include_neutrals=include_neutrals,
                           min_share=min_share, merge_radius=merge_radius, mark=mark, page=page)
@@ -529,7 +531,7 @@ def fix_cmd(sources, keep, fmt, output, **options):
             check_target(output, sources)
         elif os.path.lexists(folder := output.rstrip("/" + os.sep) or "/") and not os.path.isdir(folder):
             raise OutputError(f"{output}: exists and is not a folder")
-    palette = read_sources(sources, background_rgb(settings.backgrounds[0]))
+    palette = read_sources(sources, background_rgb(settings.backgrounds[0]), viewing=settings.viewing_on)
     if chart is not None:
         palette, settings = prepare(palette, settings, options.get("kind"),
                                     settings.backgrounds if options.get("backgrounds") else (), options.get("mark"))
@@ -630,8 +632,8 @@ def simulate_cmd(image, output, severity, cvd_model, outline):
         result = check_sources([image], settings)
         merges = {v: [] for v in result.settings.visions}
         for pair in result.pairs():
-            for vision, d in pair["delta_e"].items():
-                if d < result.settings.error_delta_e:
+            for vision in pair["delta_e"]:
+                if result.perceived.below(vision)[0][pair["a"], pair["b"]]:
                     merges.setdefault(vision, []).append((result.palette[pair["a"]].hex, result.palette[pair["b"]].hex))
     out = Path(output)
     try:

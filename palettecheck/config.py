@@ -180,10 +180,11 @@ class Settings:
     #: noticeable: the model's own 50 % line (mirrored diverging steps, matched
     #: across the chart, keep p_error)
     p_ramp: float = 0.5
-    #: what decides a pair: "delta_e" (ΔE' against the mean of [Stone2014]'s three
-    #: steps at p = 0.5, the earlier rule; about 85 % noticeable by the model's own
-    #: reckoning) or "stone" (the per-axis rule at p_error / p_warn)
-    size_model: str = "delta_e"
+    #: what decides a pair: "stone" (the default: the per-axis rule of [Stone2014]
+    #: at p_error / p_warn) or "delta_e" (ΔE' against the mean of its three steps at
+    #: p = 0.5, the earlier rule, kept as an explicit override; about 85 % noticeable
+    #: by the model's own reckoning)
+    size_model: str = "stone"
     #: real mark size in pixels (None: the assumed angle of ``mark``), turned into
     #: degrees at ``viewing_distance_cm`` and ``pixels_per_inch``; clamped to the
     #: fitted 1/3-6 deg with a note
@@ -217,20 +218,34 @@ class Settings:
     #: background (Y_b its relative luminance, L_A = L_W * Y_b / 100; see
     #: viewing_for_background); a number overrides.
     L_A: float | None = None  #: adapting luminance, cd/m²
-    #: Y_b and L_A follow the first background (True) or stay at the sRGB reference
-    #: (20 %, 64 lux) when not given
-    follow_background: bool = False
+    #: Y_b and L_A follow the first background (True, the default) or stay at the
+    #: sRGB reference (20 %, L_A 4.07 cd/m²) when not given (False)
+    follow_background: bool = True
     Y_b: float | None = None  #: background relative luminance, percent
     surround: str = "average"  #: average, dim or dark
 
     @cached_property
     def viewing(self) -> Viewing:
-        follow = (viewing_for_background(_luminance(self.backgrounds[0]), self.surround) if self.follow_background
+        """The CIECAM02 conditions every ΔE' of this run is measured under: those of
+        the first background (:meth:`viewing_on`)."""
+        return self.viewing_on(self.backgrounds[0])
+
+    def viewing_on(self, background) -> Viewing:
+        """The conditions for a page of colour ``background`` (``#rrggbb`` or sRGB
+        0-255 triple): with ``follow_background``, Y_b is its relative luminance and
+        L_A = L_W * Y_b / 100 (:func:`viewing_for_background`); else the sRGB
+        reference. ``Y_b`` and ``L_A`` given explicitly always win. Chart extraction
+        calls this with the background it found, so it measures as the check will."""
+        if isinstance(background, str):
+            y = _luminance(background)
+        else:
+            y = _luminance("#%02x%02x%02x" % tuple(int(round(min(255.0, max(0.0, float(c)))))
+                                                   for c in background))
+        follow = (viewing_for_background(y, self.surround) if self.follow_background
                   else Viewing(surround=self.surround))
-        return Viewing(Y_b=follow.Y_b if self.Y_b is None else float(self.Y_b),
-                       L_A=(L_W * (follow.Y_b if self.Y_b is None else float(self.Y_b)) / 100.0
-                            if self.L_A is None else float(self.L_A)),
-                       surround=self.surround)
+        y_b = follow.Y_b if self.Y_b is None else float(self.Y_b)
+        l_a = (follow.L_A if self.Y_b is None else L_W * y_b / 100.0) if self.L_A is None else float(self.L_A)
+        return Viewing(Y_b=y_b, L_A=l_a, surround=self.surround)
 
     @cached_property
     def mark_angle_asked(self) -> float:

@@ -11,6 +11,7 @@ from hypothesis import strategies as st
 from palettecheck.color import make_palette
 from palettecheck.config import (
     MARK_ANGLE,
+    SRGB_VIEWING,
     Settings,
     mark_threshold,
     noticeable_difference,
@@ -168,6 +169,40 @@ def test_point_6_grey_views_named_for_what_they_are():
     d = r.to_dict()
     assert {"grey-print", "achromatopsia"} <= set(d["visions"]) and set(d["visions"]) >= set(d["error_visions"])
     assert set(d["pairs"][0]["delta_e"]) == set(d["visions"])
+
+
+def test_point_2_and_7_are_the_defaults():
+    """Points 2 and 7 by default: the per-axis size rule decides (delta_e only as an
+    explicit override) and the viewing conditions follow the page; the sRGB reference
+    stays available (colorspacious's defaults: Y_b 20, L_A 64/pi x 0.2, C)."""
+    s = Settings()
+    assert s.size_model == "stone" and not s.by_delta_e and s.follow_background
+    assert s.updated(size_model="delta_e").by_delta_e and s.updated(min_delta_e=5.0).by_delta_e
+    assert Settings(follow_background=False).viewing == SRGB_VIEWING
+    assert SRGB_VIEWING.Y_b == 20.0 and SRGB_VIEWING.L_A == pytest.approx(64 / np.pi * 0.2)
+    dark = Settings(backgrounds=("#1b1b1b",))
+    assert dark.viewing.Y_b == pytest.approx(100 * float(relative_luminance([27, 27, 27])))
+
+
+def test_point_7_chart_extraction_measures_as_the_check(tmp_path):
+    """Point 7, extraction: a chart read for ``check`` is measured under the settings'
+    conditions for the page it is found on, the same ones its check then uses."""
+    from helpers import draw, save
+
+    from palettecheck.judge import check_sources
+    from palettecheck.read.images import read_image
+
+    fig, bg, _, _ = draw("bar", "dark")
+    path = tmp_path / "dark.png"
+    save(fig, path, "png")
+    s = Settings()
+    result = check_sources([str(path)], s)
+    assert result.settings.backgrounds[0] == bg and result.settings.viewing == s.viewing_on(bg)
+    assert result.settings.viewing != s.viewing  # not the white page of the defaults
+    follow = read_image(path, viewing=s.viewing_on)
+    fixed = read_image(path, viewing=s.viewing_on(bg))  # the check's own conditions, given outright
+    assert follow.colors == fixed.colors and follow.background == fixed.background == bg
+    assert [h for h, _ in follow.colors] == result.palette.hexes
 
 
 def test_point_7_viewing_follows_the_background():

@@ -67,14 +67,20 @@ def test_junit_has_one_case_per_problem(invoke):
     suite = root.find("testsuite")
     cases = suite.findall("testcase")
     failures = [c for c in cases if c.find("failure") is not None]
-    assert int(root.get("tests")) == len(cases) == int(suite.get("tests")) == 7  # 1 error + 6 warnings
-    assert int(root.get("failures")) == len(failures) == 1
+    report = json.loads(invoke("check", str(PALETTES / "kestrel-brand.json"), "--format", "json").stdout)
+    errors = sum(f["severity"] == "error" for f in report["findings"])
+    problems = sum(f["severity"] in ("error", "warning") for f in report["findings"])
+    assert int(root.get("tests")) == len(cases) == int(suite.get("tests")) == problems  # one case per problem
+    assert int(root.get("failures")) == len(failures) == errors == 1
     assert failures[0].get("name") == "distinguishable:#4d8a34+#b8432f"
     assert all(c.get("classname").startswith("palettecheck.") for c in cases)
 
 
 def test_junit_of_a_passing_palette_is_one_passing_case(invoke):
-    root = ET.fromstring(invoke("check", str(PALETTES / "dashboard-five.txt"), "--format", "junit").stdout)
+    # a generated palette passes the default check (the generator's promise)
+    made = json.loads(invoke("generate", "categorical", "-n", "4", "--format", "json").stdout)
+    assert made["check"]["passed"] and not [f for f in made["check"]["findings"] if f["severity"] != "info"]
+    root = ET.fromstring(invoke("check", *made["colors"], "--format", "junit").stdout)
     cases = root.findall("testsuite/testcase")
     assert len(cases) == 1 and cases[0].find("failure") is None and root.get("failures") == "0"
 

@@ -5,12 +5,14 @@ Figures marked "silver" were measured with this code on the development machine
 issue's bars.
 """
 
+import re
+
 import matplotlib
 import numpy as np
 import pytest
 
 from palettecheck.color import Palette, Swatch, parse_color, to_hex
-from palettecheck.config import Settings
+from palettecheck.config import SRGB_VIEWING, Settings
 from palettecheck.errors import GenerateError
 from palettecheck.generate.categorical import (
     DEFAULT_BUDGET,
@@ -25,6 +27,7 @@ from palettecheck.generate.search import (
     Region,
     measure,
     movement,
+    per_fraction,
     search,
 )
 from palettecheck.judge import check_palette
@@ -76,7 +79,9 @@ def test_ramps_mirror_on_a_dark_background():
     assert np.all(np.diff(m["lightness"]) > 0)  # dark page: dark end first
     assert gen.passed and not gen.check.findings
     div = diverging(9, settings=s)
-    assert div.passed and max(ramp_metrics(div.colors, "diverging")["cv"]) <= 0.03
+    # steps are even in the space the ramp was built in: the dark page's viewing conditions
+    assert div.passed and max(ramp_metrics(div.colors, "diverging", viewing=s.viewing)["cv"]) <= 0.03
+    assert not [f for f in div.check.findings if f.check == "arms"]  # mirrored steps told apart
 
 
 def test_even_diverging_says_its_middle_pair_merges_in_grey():
@@ -90,7 +95,7 @@ def test_ramp_metrics_never_guesses_the_scale():
     conditions -- colorspacious 1.1.2, computed, not published.)"""
     from colorspacious import cspace_convert
 
-    m = ramp_metrics(np.array([[0.0, 0.0, 0.0], [0.5, 0.5, 0.5], [1.0, 1.0, 1.0]]))
+    m = ramp_metrics(np.array([[0.0, 0.0, 0.0], [0.5, 0.5, 0.5], [1.0, 1.0, 1.0]]), viewing=SRGB_VIEWING)
     expected = cspace_convert([[0.0, 0.0, 0.0], [0.5, 0.5, 0.5], [1.0, 1.0, 1.0]], "sRGB255", "CAM02-UCS")[:, 0]
     assert np.allclose(m["lightness"], expected, atol=1e-9)
     assert m["lightness"][-1] < 2.5
@@ -101,13 +106,15 @@ def test_viridis_is_confirmed_sequential_by_the_same_checker():
     presents viridis as perceptually uniform sequential, designed with monotonic
     lightness in CAM02-UCS (the viscm tool). Our checker agrees: J' rises strictly
     along all 256 entries (silver: step CV 1.2 % over 256 entries, 2.0 % over 9
-    samples), and ``check`` finds no order or uniformity problem in 9 samples."""
+    samples), and ``check`` finds no order or uniformity problem in 9 samples.
+    viscm's CAM02-UCS is colorspacious's default (the sRGB viewing conditions, Y_b 20),
+    so the evenness is measured there; the check runs under its own defaults."""
     rgb = matplotlib.colormaps["viridis"](np.linspace(0, 1, 256))[:, :3] * 255.0
-    m = ramp_metrics(rgb)
+    m = ramp_metrics(rgb, viewing=SRGB_VIEWING)
     assert m["monotonic"] == [True] and np.all(np.diff(m["lightness"]) > 0)
     assert m["cv"][0] <= 0.03
     nine = [to_hex(c) for c in matplotlib.colormaps["viridis"](np.linspace(0, 1, 9))[:, :3] * 255]
-    assert ramp_metrics(nine)["cv"][0] <= 0.03
+    assert ramp_metrics(nine, viewing=SRGB_VIEWING)["cv"][0] <= 0.03
     result = check_palette(Palette(tuple(Swatch(h) for h in nine)), Settings(kind="sequential"))
     assert not [f for f in result.findings if f.check in ("order", "uniformity")]
 
@@ -141,8 +148,8 @@ def test_ramp_contrast_shortfall_is_explained():
 
 @pytest.fixture(scope="module")
 def eight():
-    """n = 8 on white at the default budget, and with 20x the budget (computed once)."""
-    return categorical(8, seed=0), categorical(8, seed=0, budget=20 * DEFAULT_BUDGET)
+    """n = 8 on white at the default budget (computed once)."""
+    return categorical(8, seed=0)
 
 
 def random_draws(problem, count, seed):
@@ -157,24 +164,39 @@ def random_draws(problem, count, seed):
 
 
 def test_categorical_eight_near_best_and_beats_random(eight):
-    """Smallest ΔE' over normal, protanopia, deuteranopia and tritanopia.
+    """The smallest difference in the units the check decides by (the default size
+    model's noticeable fraction F) over normal, protanopia, deuteranopia and
+    tritanopia, at each deficiency's worst severity.
 
-    Silver figures (seed 0): default budget (24 starts) 20.64; 20x budget (480
-    starts) 20.08 -- the goal also keeps grey-view pairs apart, so a larger budget
-    need not raise the minimum. Over seeds 0-11 the default run stayed at or above
-    97.7 % of the better 20x run of seeds 0-1 (20.33). Best of 200 random draws from
-    the same constrained gamut (J' 20-95, M' >= 10, 3:1 on white): 8.60, median 2.77.
+    Properties, not recorded figures: the palette beats the best of 200 random draws
+    from the same constrained gamut (J' 20-95, M' >= 10, 3:1 on white) and passes the
+    check without a warning about its pairs (the 20x-budget comparison is in the slow
+    set: test_categorical_eight_near_twenty_times_the_budget).
     """
-    gen, big = eight
-    assert gen.min_delta_e >= 0.95 * big.min_delta_e
-    _, lows = measure(categorical_problem(8), random_draws(categorical_problem(8), 200, seed=2024))
-    assert gen.min_delta_e > lows.max()
-    assert gen.min_delta_e > 18.0  # silver 20.64
-    assert gen.passed and gen.check.score.value >= 95  # silver 100
+    gen = eight
+    problem = categorical_problem(8)
+    _, lows = measure(problem, random_draws(problem, 200, seed=2024))
+    assert gen.min_noticed > lows.max() / per_fraction(problem.settings)
+    assert gen.min_noticed >= gen.check.settings.p_warn  # every pair above the warning line
+    # The only warnings left are grey-print ones, and some are unavoidable: 3:1 against
+    # white means relative luminance at most 1.05 / 3 - 0.05 = 0.30 (WCAG 2.1 contrast
+    # ratio, V), L* 61.7 (CIE 15 CIELAB, V), and the band's floor J' 20 is L* 28 on a
+    # white page, so 8 greys share some 34 L*; the grey rule asks
+    # 0.8 x ND_L(1, 2 deg) = 0.8 x 10.91 = 8.7 L* between neighbours (Stone 2014
+    # constants, C), which fits at most 5 of them.
+    assert gen.passed and {f.check for f in gen.check.findings if f.severity != "info"} <= {"grey"}
+
+
+@pytest.mark.slow
+def test_categorical_eight_near_twenty_times_the_budget(eight):
+    """The default budget comes within 5 % of 20x the budget (the goal also keeps
+    grey-view pairs apart, so a larger budget need not raise the minimum)."""
+    big = categorical(8, seed=0, budget=20 * DEFAULT_BUDGET)
+    assert eight.min_noticed >= 0.95 * big.min_noticed
 
 
 def test_categorical_respects_the_constrained_gamut(eight):
-    gen = eight[0]
+    gen = eight
     problem = categorical_problem(8)
     seen = problem.candidates(np.array([parse_color(h)[0] for h in gen.colors]))
     assert problem.region.allows(seen.jab, seen.contrast).all()
@@ -182,8 +204,9 @@ def test_categorical_respects_the_constrained_gamut(eight):
 
 
 def test_categorical_order_puts_the_most_different_first(eight):
-    gen = eight[0]
-    d = np.min([gen.check.perceived.delta[v] for v in gen.check.settings.visions], axis=0)
+    gen = eight
+    # in the units the check decides by (the size model's fraction F by default)
+    d = np.min([gen.check.perceived.measure(v) for v in gen.check.settings.visions], axis=0)
     first = d[0, 1]
     assert first == pytest.approx(np.max(d))  # the two used first differ most
     gaps = [min(d[k, :k]) for k in range(2, len(gen.colors))]
@@ -206,6 +229,8 @@ def test_print_safe_includes_grey_in_the_minimum():
 
 
 @pytest.mark.parametrize("settings", [Settings(mark="line"), Settings(backgrounds=("#15191f",)),
+                                      Settings(backgrounds=("#000000",)),
+                                      Settings(backgrounds=("#1b1e23",), mark="line"),
                                       Settings(backgrounds=("#ffffff", "#f1efe8"), mark="point")])
 def test_generated_palettes_pass_check_under_the_same_options(settings):
     for gen in (categorical(5, settings=settings), sequential(6, settings=settings),
@@ -224,13 +249,18 @@ def test_conflicting_kept_colours_explained():
 
 
 def test_infeasible_request_explained_with_best_minimum():
-    # grey print asks 10.4 ΔE' between thin lines inside a 15-unit J' band: too tight for 5
-    gen = categorical(5, lightness=(30, 45), settings=Settings(mark="line", print_safe=True))
+    # the grey print must tell thin lines apart inside a 15-unit J' band: too tight for 5
+    s = Settings(mark="line", print_safe=True)
+    gen = categorical(5, lightness=(30, 45), settings=s)
     assert not gen.passed
     text = " ".join(gen.explanation)
-    assert "best smallest ΔE' found" in text and "line marks need 10.4" in text
-    assert "binding: " in text and "about 2 colours reach 10.4" in text
-    assert "with the full J' range ΔE'" in text and "--print-safe: without it ΔE'" in text
+    need = f"{100 * s.p_error:.0f} %"  # the error line in force (P_ERROR, config.py)
+    assert "best closest pair found" in text and f"line marks need {need}" in text
+    assert "binding: " in text and re.search(rf"about \d+ colours reach {need}", text)
+    assert "with the full J' range" in text and "--print-safe: without it" in text
+    old = categorical(5, lightness=(30, 45), settings=s.updated(size_model="delta_e"))
+    text = " ".join(old.explanation)  # the ΔE' override still explains itself in ΔE'
+    assert "best smallest ΔE' found" in text and f"line marks need {old.check.settings.error_delta_e:.1f}" in text
 
 
 def test_empty_region_explained():

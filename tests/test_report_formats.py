@@ -77,10 +77,15 @@ def inline_colours(page: str, cls: str) -> list[list[str]]:
 
 def test_markdown_check_has_every_part(brand):
     md = render(brand, "markdown")
+    counts = {sev: sum(f.severity == sev for f in brand.findings) for sev in ("error", "warning")}
     for heading in ("# Colour check: ", "## How it was checked", "## Colours", "## Findings",
-                    "### Errors (1)", "### Warnings (6)", "## How the score was reached"):
+                    f"### Errors ({counts['error']})", f"### Warnings ({counts['warning']})",
+                    "## How the score was reached"):
         assert f"\n{heading}" in "\n" + md, heading
-    assert md_escape(CAUTION) in md and "**Result: fails, score 24 of 100" in md
+    assert counts["error"] >= 1  # its red and green merge under deuteranopia (palettes/README.md)
+    assert md_escape(CAUTION) in md and f"**Result: fails, score {brand.score.value} of 100" in md
+    # the error line in the words of the rule in force, with its p (README, "What is measured")
+    assert f"fewer than {100 * brand.settings.p_error:.0f} % of readers see the pair as different" in md
     for w in brand.palette:
         assert f"`{w.hex}`" in md and w.name in md
     for f in brand.findings:
@@ -368,8 +373,9 @@ def test_fix_and_generate_pages(invoke, tmp_path, fmt):
     assert gen.exit_code == 0, gen.stderr
     page = (out / f"sequential-palette.{ext}").read_text(encoding="utf-8")
     assert "A sample heat map" in page and "Lightness along the ramp" in page and CAUTION[:40] in page
-    if fmt == "html":
-        assert 'id="moves-deuteranopia-arrow-2"' in (out / "kestrel-brand-fix.html").read_text(encoding="utf-8")
+    if fmt == "html":  # an arrow for the colour that moved, numbered by its index
+        moved = json.loads(invoke("fix", BRAND, "--format", "json").stdout)["moves"][0]["index"]
+        assert f'id="moves-deuteranopia-arrow-{moved}"' in (out / "kestrel-brand-fix.html").read_text(encoding="utf-8")
     else:
         assert (out / "kestrel-brand-fix-moves-deuteranopia.png").is_file()
         assert (out / "sequential-palette-heatmap.png").is_file()

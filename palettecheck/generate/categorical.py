@@ -1,6 +1,8 @@
 """Categorical palettes that pass the checks: colours as far apart as every vision allows.
 
-:func:`palettecheck.generate.search.search` maximises the smallest ΔE' (CAM02-UCS [Luo2006])
+:func:`palettecheck.generate.search.search` maximises the smallest difference in the
+units the check decides by (with the default size model, [Stone2014]'s noticeable
+fraction, scaled; with ``delta_e``, ΔE' in CAM02-UCS [Luo2006])
 over the settings' visions (and the grey view when ``print_safe``), softly (a smooth
 minimum), next to kept colours, within a J' band, above an M' floor and at the
 required WCAG contrast [WCAG21] against every background. Secondary terms mirror the
@@ -25,7 +27,7 @@ from ..config import Settings
 from ..errors import GenerateError
 from .request import color_count, lightness_band, opaque_color, settings_for
 from .result import Generated, finish
-from .search import Goal, Problem, Region, search
+from .search import Goal, Problem, Region, per_fraction, search
 
 __all__ = ["categorical", "categorical_problem", "DEFAULT_BUDGET", "DEFAULT_BAND", "DEFAULT_MIN_CHROMA"]
 
@@ -158,6 +160,14 @@ def _empty_region(problem: Problem) -> str:
 def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[str]:
     s, out = problem.settings, []
     thr = s.error_delta_e
+    unit = per_fraction(s)
+
+    def shown(value: float) -> str:
+        """A search figure in the check's words: ΔE', or the fraction of readers."""
+        if unit is None:
+            return f"ΔE' {value:.1f}"
+        f = value / unit  # the model is linear past p = 1: all readers, with room to spare
+        return f"{100 * f:.0f} % of readers" if f < 1 else f"all readers (F {f:.2f})"
     errors = [f for f in gen.check.findings if f.severity == "error"]
     kept = set(range(problem.k))
     for f in errors:
@@ -166,10 +176,18 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
         if f.check == "contrast" and set(f.indices) <= kept:
             out.append(f"binding: a kept colour fails contrast. {f.message}; relax with --min-contrast 1 if "
                        "the colour is always labelled")
-    if gen.min_delta_e < thr and not out:
-        i, j, v = gen.worst
-        out.append(f"best smallest ΔE' found: {gen.min_delta_e:.1f} ({gen.colors[i]} and {gen.colors[j]} "
-                   f"under {v}); {s.mark} marks need {thr:.1f}")
+    low_now = gen.min_delta_e if unit is None else gen.min_noticed * unit
+    if low_now < thr and not out:
+        if unit is None:
+            i, j, v = gen.worst
+            out.append(f"best smallest ΔE' found: {gen.min_delta_e:.1f} ({gen.colors[i]} and {gen.colors[j]} "
+                       f"under {v}); {s.mark} marks need {thr:.1f}")
+        else:
+            i, j, v = gen.worst_noticed
+            out.append(f"best closest pair found: {gen.colors[i]} and {gen.colors[j]} under {v}, noticed by "
+                       f"{100 * gen.min_noticed:.0f} % of readers side by side (ΔE' "
+                       f"{float(gen.check.perceived.delta[v][i, j]):.1f}); {s.mark} marks need "
+                       f"{100 * s.p_error_kind:.0f} %")
         probes = []
         free = np.array([parse_color(h)[0] for h in gen.colors[problem.k:]])  # most distinct first
         lo, hi, fits = max(problem.k, 2), problem.n - 1, None  # bisect the count that still fits
@@ -181,7 +199,8 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
                 fits, lo = (m, low), m + 1
             else:
                 hi = m - 1
-        probes.append(f"about {fits[0]} colours reach {thr:.1f} under these constraints (ΔE' {fits[1]:.1f})"
+        need = f"{thr:.1f}" if unit is None else f"{100 * s.p_error_kind:.0f} %"
+        probes.append(f"about {fits[0]} colours reach {need} under these constraints ({shown(fits[1])})"
                       if fits else "even the fewest colours fall short under these constraints")
         r = problem.region
         relax = []
@@ -198,7 +217,7 @@ def _explain_categorical(gen: Generated, problem: Problem, seed: int) -> list[st
         for what, label, region, st in relax:  # each starts from the palette found, which stays allowed
             p = Problem(st, problem.fixed, problem.n_free, region, _widest(st))
             low = search(p, seed=seed, budget=_PROBE_BUDGET, start=free).min_delta_e
-            gains.append((low, what, f"{what}: {label} ΔE' {low:.1f}"))
+            gains.append((low, what, f"{what}: {label} {shown(low)}"))
         reach = [g for g in gains if g[0] >= thr]
         binding = f"{max(reach)[1]} (relaxing it helps most)" if reach else "the number of colours"
         out.append(f"binding: {binding}. Ways out: " + "; ".join(probes + [g[2] for g in gains]))

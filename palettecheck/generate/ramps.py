@@ -8,6 +8,20 @@ two (a diverging ramp: one per arm); the path and the colours along it come from
 colourfulness is lowered step by step, then longer J' spans are tried; the first
 attempt whose neighbours stay apart is returned, else the most distinct one with
 the binding constraint named. :func:`colormap` samples the same path continuously.
+
+Steps are placed by ΔE' (CAM02-UCS, even chords along the path); whether an attempt
+is kept is decided by the check itself (:func:`palettecheck.judge.check_palette`
+under the same settings): with the default size model that is [Stone2014]'s
+per-axis rule, so a returned ramp passes exactly when ``check`` passes it. The
+near end's distance from the page is set in the same units: a multiple of the
+error line of the settings' size model (see :func:`_near_lightness`). A diverging
+ramp whose mirrored steps merge (the ``arms`` check; on dark pages the pale far ends
+hold little colour) is tried again with its far ends pulled towards the middle,
+where the gamut leaves the two hues more colourfulness.
+
+References
+----------
+- [Stone2014] Stone, Szafir & Setlur (2014); see :mod:`palettecheck.config`.
 """
 
 from __future__ import annotations
@@ -20,8 +34,9 @@ import numpy as np
 from ..color import parse_color, to_hex
 from ..config import Settings
 from ..errors import GenerateError
-from ..perceive.palette import perceive_colors
-from ..perceive.ucs import from_ucs, to_ucs
+from ..judge.checks import diverging_arm_pairs
+from ..perceive.palette import pair_arrays, perceive_colors, perceive_views
+from ..perceive.ucs import from_ucs, to_lab, to_ucs
 from .ramp_path import MAX_STEPS, polar, ramp_colors, round_even
 from .request import color_count, lightness_band, opaque_color, settings_for
 from .result import Generated, finish, listed_colormap
@@ -49,8 +64,37 @@ def _side(settings: Settings) -> tuple[str, float]:
 
 
 #: Ramp layouts tried in turn without --lightness: the near end this many error
-#: thresholds (ΔE') off the page, and the far end moved this much further out (J').
+#: lines off the page (in the units of the settings' size model), and the far end
+#: moved this much further out (J'; our choice).
 _LAYOUTS = ((2.0, 0.0), (1.5, 0.0), (1.25, 6.0))
+#: Diverging ramps whose arms merge: the far ends pulled in by this much J' (our
+#: choice: near white or black the gamut holds little colourfulness for either hue).
+_PULL_IN = (8.0, 16.0, 24.0)
+#: Checks whose errors a ramp attempt must be free of to be kept (contrast is
+#: explained, not searched away: it depends on the J' span asked for).
+_PAIR_CHECKS = ("distinguishable", "near-duplicate", "arms")
+
+
+def _near_lightness(settings: Settings, j_bg: float, side: str, factor: float) -> float:
+    """J' of the ramp's near end: the first neutral, going away from the page, that
+    the settings' size model puts ``factor`` error lines off it. With the size model
+    [Stone2014] that is the noticeable fraction F (CIELAB over the per-axis steps at
+    p = 1, as :mod:`palettecheck.perceive.palette` measures it) reaching
+    ``factor * p`` for the ramp's error line; with ``delta_e`` it is ΔE'."""
+    if settings.by_delta_e:
+        gap = factor * settings.error_delta_e
+        return j_bg - gap if side == "light" else j_bg + gap
+    sign = -1.0 if side == "light" else 1.0
+    j = j_bg + sign * np.arange(0.0, 60.0, 0.25)
+    j = j[(j > 1.0) & (j < 99.5)]
+    if not len(j):
+        return j_bg
+    with np.errstate(invalid="ignore"):
+        grey = np.clip(from_ucs(np.stack([j, np.zeros_like(j), np.zeros_like(j)], -1), settings.viewing), 0, 255)
+    bg = np.array(parse_color(settings.backgrounds[0])[0], dtype=float)
+    f = np.linalg.norm((to_lab(grey) - to_lab(bg)) / np.asarray(settings.nd1), axis=-1)
+    hit = np.flatnonzero(f >= factor * settings.p_error_kind)
+    return float(j[hit[0]] if len(hit) else j[-1])
 
 
 def _ends(settings: Settings, lightness) -> list[tuple[float, float]]:
@@ -62,14 +106,39 @@ def _ends(settings: Settings, lightness) -> list[tuple[float, float]]:
         return [(hi, lo) if side == "light" else (lo, hi)]
     out = []
     for factor, extra in _LAYOUTS:
-        gap = factor * settings.error_delta_e
+        near = _near_lightness(settings, j_bg, side, factor)
         if side == "light":
             far = FAR_LIGHTNESS["light"] - extra
-            out.append((max(min(j_bg - gap, 97.0), far + 5), far))
+            out.append((max(min(near, 97.0), far + 5), far))
         else:
             far = min(99.0, FAR_LIGHTNESS["dark"] + extra / 2)
-            out.append((min(max(j_bg + gap, 3.0), far - 5), far))
+            out.append((min(max(near, 3.0), far - 5), far))
+    if settings.kind == "diverging":  # arms that merge get more colourfulness nearer the middle
+        near = out[0][0]
+        for pull in _PULL_IN:
+            far = out[0][1] + (pull if side == "light" else -pull)
+            if abs(near - far) >= 20.0:
+                out.append((near, far))
     return out
+
+
+def _pair_errors(trial: Generated) -> int:
+    return sum(1 for f in trial.check.findings if f.severity == "error" and f.check in _PAIR_CHECKS)
+
+
+def _margin(trial: Generated) -> float:
+    """The smallest of the check's own figures over the pairs the check compares
+    (neighbours, and mirrored steps of a diverging ramp) under the error visions,
+    divided by its error line: 1 or more passes."""
+    p, s = trial.check.perceived, trial.check.settings
+    n = len(trial.colors)
+    i, j = pair_arrays(n, s.kind)
+    low = min(float(np.min(p.measure(v)[i, j])) if len(i) else np.inf for v in p.error_visions) / p.lines[0]
+    if s.kind == "diverging" and n >= 3:
+        a, b = (np.array(x) for x in zip(*diverging_arm_pairs(n)))
+        line = p.lines[0] if s.by_delta_e else s.p_error
+        low = min(low, min(float(np.min(p.measure(v)[a, b])) for v in p.error_visions) / line)
+    return low
 
 
 def _anchors(colors, default, viewing) -> list[tuple[float, float, float]]:
@@ -93,7 +162,7 @@ def _ramp(kind, n, colors, lightness, settings):
     if colors and len(colors) not in allowed:
         raise GenerateError(f"--from: a {kind} ramp takes {words}, not {len(colors)}")
     anchors = _anchors(colors, DEFAULT_SEQUENTIAL if kind == "sequential" else DEFAULT_DIVERGING, settings.viewing)
-    gen, done = None, False
+    gen, done, best = None, False, None
     for near, far in _ends(settings, lightness):
         for scale in _CHROMA_SCALES:
             scaled = [(j, m * scale, h) for j, m, h in anchors]
@@ -103,12 +172,15 @@ def _ramp(kind, n, colors, lightness, settings):
                       "settings": settings, "chroma_scale": scale}
             trial = finish(kind, [to_hex(c) for c in rgb], settings, [False] * n, recipe)
             trial.exact = exact
-            if gen is None or trial.min_delta_e > gen.min_delta_e:
-                gen, shape = trial, (near, far, paths)
-            if not any(f.severity == "error" and f.check in ("distinguishable", "near-duplicate")
-                       for f in trial.check.findings):
+            rank = (-_pair_errors(trial), _margin(trial))
+            if gen is None or rank > best:
+                gen, shape, best = trial, (near, far, paths), rank
+            if rank[0] == 0:  # the check finds no pair it cannot tell apart
                 gen, shape, done = trial, (near, far, paths), True
                 break
+            if not any(f.severity == "error" and f.check in ("distinguishable", "near-duplicate")
+                       for f in trial.check.findings):
+                break  # only mirrored steps merge: less colourfulness would only merge them more
         if done:
             break
     near, far, paths = shape
@@ -149,16 +221,34 @@ def _explain_ramp(gen: Generated, paths, near, far) -> list[str]:
     if errors & {"distinguishable", "near-duplicate"}:
         lengths = {}
         for v in s.visions:
-            views = [perceive_colors(np.clip(from_ucs(p, s.viewing), 0, 255), s, (v,))[0] for p in paths]
+            rgbs = [np.clip(from_ucs(p, s.viewing), 0, 255) for p in paths]
+            if s.by_delta_e:
+                views = [perceive_colors(rgb, s, (v,))[0] for rgb in rgbs]
+            else:  # the path's length in the size model's units, at its worst judged severity
+                views = [z for rgb in rgbs for z in perceive_views(rgb, s, (v,))[2]]
             lengths[v] = min(float(np.linalg.norm(np.diff(u, axis=0), axis=-1).sum()) for u in views)
         v = min(lengths, key=lengths.get)
-        steps = int(lengths[v] // s.error_delta_e)
+        line = s.error_delta_e if s.by_delta_e else s.p_error_kind
+        steps = int(lengths[v] // line)
         most = steps + 1 if gen.kind == "sequential" else 2 * steps + 1
         arm = " per arm" if gen.kind == "diverging" else ""
-        out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under "
-                   f"every vision, but the J' band {min(near, far):.0f}-{max(near, far):.0f} is only about "
-                   f"{lengths[v]:.0f} ΔE' long{arm} under {v}: at most about {most} colours fit (smallest "
-                   f"step now {gen.min_delta_e:.1f}); use fewer colours or widen --lightness")
+        band = f"the J' band {min(near, far):.0f}-{max(near, far):.0f}"
+        if s.by_delta_e:
+            out.append(f"binding: the number of steps. Neighbouring colours need ΔE' {s.error_delta_e:.1f} under "
+                       f"every vision, but {band} is only about {lengths[v]:.0f} ΔE' long{arm} under {v}: at "
+                       f"most about {most} colours fit (smallest step now {gen.min_delta_e:.1f}); use fewer "
+                       "colours or widen --lightness")
+        else:
+            out.append(f"binding: the number of steps. Neighbouring colours must each be noticed by "
+                       f"{100 * line:.0f} % of readers under every vision, but {band} holds only about "
+                       f"{lengths[v] / line:.1f} such steps{arm} under {v}: at most about {most} colours fit "
+                       f"(closest neighbours now noticed by {100 * gen.min_noticed:.0f} %); use fewer colours, "
+                       "a larger --mark, or widen --lightness")
+    if "arms" in errors:
+        out.append("binding: the two arms. Mirrored steps on either side of the midpoint stay too alike under "
+                   "some vision even with the far ends pulled in; choose two base colours (--from) that "
+                   "differ under every colour-vision deficiency (a blue and an orange do), or use a larger "
+                   "--mark")
     if "contrast" in errors:
         for f in gen.check.findings:
             if f.check == "contrast":

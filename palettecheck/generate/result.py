@@ -2,7 +2,8 @@
 
 :func:`finish` runs each generated palette through
 :func:`palettecheck.judge.check_palette` with the settings it was made under, and
-records the smallest ΔE' over the checked pairs and visions, so a
+records the smallest ΔE' and the smallest noticeable fraction of the size model
+over the checked pairs and visions, so a
 :class:`Generated` says whether it passes and (with the generator's explanation)
 why not.
 """
@@ -31,6 +32,10 @@ class Generated:
     check: CheckResult
     min_delta_e: float  #: smallest ΔE' over the checked pairs and visions
     worst: tuple | None  #: (i, j, vision) of that pair
+    #: smallest noticeable fraction F of [Stone2014]'s size model over the same pairs
+    #: and visions (what the default verdict compares with p_error), with its pair
+    min_noticed: float = np.inf
+    worst_noticed: tuple | None = None
     explanation: list[str] = field(default_factory=list)  #: why it cannot pass, if so
     notes: list[str] = field(default_factory=list)
     seed: int | None = None
@@ -48,6 +53,7 @@ class Generated:
     def to_dict(self) -> dict:
         return {"kind": self.kind, "colors": list(self.colors), "check": self.check.to_dict(),
                 "min_delta_e": round(float(self.min_delta_e), 3) if np.isfinite(self.min_delta_e) else None,
+                "min_noticed": round(float(self.min_noticed), 4) if np.isfinite(self.min_noticed) else None,
                 "worst_pair": (None if self.worst is None else
                                {"a": self.worst[0], "b": self.worst[1], "vision": self.worst[2]}),
                 "explanation": list(self.explanation), "notes": list(self.notes), "seed": self.seed}
@@ -69,12 +75,15 @@ def finish(kind, hexes, settings, locked, recipe, seed=None) -> Generated:
     result = check_palette(palette, settings)
     p = result.perceived
     visions = list(settings.visions) + (["grey-print"] if settings.print_safe else [])
-    low, worst = np.inf, None
+    low, worst, low_f, worst_f = np.inf, None, np.inf, None
     for i, j in pair_indices(len(hexes), kind):
         for v in visions:
             if p.delta[v][i, j] < low:
                 low, worst = float(p.delta[v][i, j]), (i, j, v)
-    return Generated(kind, list(hexes), result, low, worst, seed=seed, recipe=recipe)
+            if p.fraction[v][i, j] < low_f:
+                low_f, worst_f = float(p.fraction[v][i, j]), (i, j, v)
+    return Generated(kind, list(hexes), result, low, worst, min_noticed=low_f, worst_noticed=worst_f, seed=seed,
+                     recipe=recipe)
 
 
 def listed_colormap(rgb1, name: str, register: bool = False):

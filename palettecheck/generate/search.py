@@ -5,11 +5,15 @@ many are free, where a free colour may go (:class:`Region`: a J' band, an M' flo
 a WCAG contrast ratio against every background, and always the sRGB gamut) and what
 to maximise (:class:`Goal`). :func:`search` returns the best palette it found.
 
-Every distance is the one ``check`` measures: ΔE' in CAM02-UCS [Luo2006] between
-colours simulated for each vision and measured by :func:`palettecheck.perceive.palette.perceive_colors`
-(the settings' severity, CVD model and viewing conditions), on colours rounded to
-``#rrggbb``. So a palette the search scores as passing is scored the same by
-:func:`palettecheck.judge.check_palette`.
+Every distance is the one ``check`` decides by (:func:`search_coordinates`): with
+the default size model, [Stone2014]'s noticeable fraction F (CIELAB over the mark's
+per-axis steps), scaled so that the error line sits at ``Settings.error_delta_e``;
+with ``delta_e`` (or ``min_delta_e``), ΔE' in CAM02-UCS [Luo2006]. Colours are
+simulated for each vision at every judged severity as
+:func:`palettecheck.perceive.palette.perceive_views` does (the settings' CVD model
+and viewing conditions), on colours rounded to ``#rrggbb``. So a palette the search
+scores as passing is scored the same by :func:`palettecheck.judge.check_palette`.
+Movement (repair) and the polishing balls stay in CAM02-UCS ΔE'.
 
 Method
 ------
@@ -32,6 +36,7 @@ References
 ----------
 - [Luo2006] Luo, Cui & Li (2006), CAM02-UCS; see :mod:`palettecheck.perceive`.
 - [Machado2009] Machado, Oliveira & Fernandes (2009); see :mod:`palettecheck.vision`.
+- [Stone2014] Stone, Szafir & Setlur (2014); see :mod:`palettecheck.config`.
 """
 
 from __future__ import annotations
@@ -50,7 +55,7 @@ from ..perceive.wcag import contrast_ratio
 from ..terms import GREY_VISION
 
 __all__ = ["Region", "Goal", "Problem", "Solution", "search", "measure", "movement", "pair_mask",
-           "candidate_pool", "GRID_LEVELS"]
+           "candidate_pool", "GRID_LEVELS", "per_fraction", "search_coordinates"]
 
 #: Channel values per axis of the candidate grid (14**3 = 2744 colours, about 20
 #: apart). The grid only has to find the right region; polishing does the rest, and
@@ -58,7 +63,7 @@ __all__ = ["Region", "Goal", "Problem", "Solution", "search", "measure", "moveme
 GRID_LEVELS = 14
 _FINALISTS = 3  #: best distinct starts that are polished
 _POLISH_RADII = (4.0, 2.0, 1.0, 0.5)  #: ΔE' radii of the polishing balls
-_POLISH_SAMPLES = 40  #: candidates per colour per polishing step
+_POLISH_SAMPLES = 60  #: candidates per colour per polishing step (60: the size model, steeper in L*, needs more than ΔE' did)
 _MAX_SWEEPS = 40  #: coordinate-ascent sweeps per start, at most
 _POLISH_SWEEPS = 40  #: polishing sweeps per radius, at most
 
@@ -235,6 +240,12 @@ def search_coordinates(rgb255, settings: Settings, visions) -> tuple[np.ndarray,
     return coords, ucs[0]
 
 
+def per_fraction(settings: Settings) -> float | None:
+    """Search-coordinate units per unit of the size model's noticeable fraction F
+    (None when ``delta_e`` decides: the coordinates are ΔE' itself)."""
+    return None if settings.by_delta_e else settings.error_delta_e / settings.p_error_kind
+
+
 @dataclass
 class Candidates:
     rgb: np.ndarray  #: (..., 3) sRGB 0-255
@@ -284,7 +295,7 @@ def candidate_pool(problem: Problem, levels: int = GRID_LEVELS) -> Candidates:
                    cvd_model=s.cvd_model, L_A=s.viewing.L_A, Y_b=s.viewing.Y_b, surround=s.viewing.surround,
                    mark=s.mark, mark_size=s.mark_size, viewing_distance_cm=s.viewing_distance_cm,
                    pixels_per_inch=s.pixels_per_inch, p_error=s.p_error, min_delta_e=s.min_delta_e,
-                   grey_print_model=s.grey_print_model)
+                   grey_print_model=s.grey_print_model, size_model=s.size_model, kind=s.kind, p_ramp=s.p_ramp)
     rgb, u, jab = _grid_perceived(levels, problem.visions, how)
     c = contrast_ratio(rgb[:, None, :], problem.backgrounds)
     keep = problem.region.allows(jab, c)

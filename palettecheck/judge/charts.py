@@ -175,7 +175,8 @@ def check_sources(sources, settings: Settings | None = None, *, kind: str | None
     (None and empty when not given); ``settings`` already holds them.
     """
     settings = settings or Settings()
-    palette = read_sources(sources, background_rgb(settings.backgrounds[0]), page)
+    # a chart is measured under the conditions of the page it is found on, as the check does
+    palette = read_sources(sources, background_rgb(settings.backgrounds[0]), page, viewing=settings.viewing_on)
     palette, settings = prepare(palette, settings, kind, backgrounds, mark)
     return check_palette(palette, settings)
 
@@ -225,7 +226,7 @@ def _one(source, job: _Job):
     path = str(source)
     try:
         fallback = job.backgrounds[0] if job.backgrounds else job.settings.backgrounds[0]
-        options = dict(min_share=job.min_share, merge_radius=job.merge_radius, viewing=job.settings.viewing)
+        options = dict(min_share=job.min_share, merge_radius=job.merge_radius, viewing=job.settings.viewing_on)
         if isinstance(source, Blob):
             reading = read_image_bytes(source.data, source.name, fallback, **options)
         else:
@@ -378,15 +379,16 @@ def iter_checks(files, settings=None, *, jobs: int | None = None, kind: str | No
 
 
 def _cache_options(job: _Job) -> tuple[dict, str]:
-    """What a chart's reading depends on besides its bytes, and (as JSON text) what
-    its verdict depends on besides its reading: computed once per scan."""
+    """What a chart's reading depends on besides its bytes (the settings that
+    :meth:`~palettecheck.config.Settings.viewing_on` uses among them), and (as JSON
+    text) what its verdict depends on besides its reading: computed once per scan."""
     import dataclasses
     import json
 
     s = job.settings
     fallback = job.backgrounds[0] if job.backgrounds else s.backgrounds[0]
     reading = {"min_share": job.min_share, "merge_radius": job.merge_radius, "background": fallback,
-               "viewing": dataclasses.asdict(s.viewing), **({"page": job.page} if job.page != 1 else {})}
+               "viewing": [s.follow_background, s.Y_b, s.L_A, s.surround], **({"page": job.page} if job.page != 1 else {})}
     judged = json.dumps([dataclasses.asdict(s), job.kind, job.backgrounds, job.include_neutrals, job.mark],
                         sort_keys=True, default=str)
     return reading, judged
@@ -536,6 +538,7 @@ def check_figure(fig, settings=None, *, dpi: float | None = None, kind: str | No
     from ..read.figure import read_figure
 
     fallback = backgrounds[0] if backgrounds else (settings.backgrounds[0] if settings else None)
-    reading = read_figure(fig, background_rgb(fallback), dpi=dpi, min_share=min_share, merge_radius=merge_radius)
+    reading = read_figure(fig, background_rgb(fallback), dpi=dpi, min_share=min_share, merge_radius=merge_radius,
+                          viewing=(settings or Settings()).viewing_on)
     return check_image(reading, settings, kind=kind, backgrounds=tuple(backgrounds),
                        include_neutrals=include_neutrals, mark=mark)

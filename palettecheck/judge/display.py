@@ -26,13 +26,15 @@ and about five just-noticeable steps for large areas side by side).
 
 from __future__ import annotations
 
+import dataclasses
+
 from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..color import Palette, parse_color
+from ..color import Palette, make_palette, parse_color
 from ..config import Settings
-from ..perceive.palette import perceive_colors
+from ..perceive.palette import perceive_colors, perceive_palette
 from ..terms import CVD_VISIONS, ERROR, INFO, WARNING
 from .charts import ImageCheck
 
@@ -158,29 +160,35 @@ def _near_misses(colors, jab) -> list[DisplayFinding]:
 
 def _cross_chart(colors, settings: Settings) -> list[DisplayFinding]:
     """Pairs from different charts, apart under normal vision (beyond a near miss)
-    but merging under a simulated deficiency."""
+    but merging under a simulated deficiency: judged as ``check`` judges a pair (the
+    settings' size model, each deficiency at its worst severity)."""
     visions = tuple(v for v in settings.visions if v in CVD_VISIONS)
     if len(colors) < 2 or not visions:
         return []
-    u = perceive_colors(_rgb([c.hex for c in colors]), settings, ("normal", *visions))
-    d = np.linalg.norm(u[:, :, None] - u[:, None, :], axis=-1)  # (V, n, n)
+    p = perceive_palette(make_palette([(c.hex, None, False) for c in colors]),
+                         dataclasses.replace(settings, kind="categorical"))
+    m = np.stack([p.measure(v) for v in visions])  # (V, n, n)
+    err = p.lines[0]
+    need = p.line_words()[0]
     out = []
-    err = settings.error_delta_e
     for i in range(len(colors)):
         for j in range(i + 1, len(colors)):
             a, b = colors[i], colors[j]
             if set(a.charts) & set(b.charts):
                 continue  # they share a chart: its own check judges the pair
-            if d[0, i, j] <= NEAR_DELTA_E:
+            if p.delta["normal"][i, j] <= NEAR_DELTA_E:
                 continue
-            worst = int(np.argmin(d[1:, i, j]))
-            if d[1 + worst, i, j] < err:
+            worst = int(np.argmin(m[:, i, j]))
+            if m[worst, i, j] < err:
+                v = visions[worst]
+                seen = (f"ΔE' {p.delta[v][i, j]:.1f}; needs {err:.1f}" if settings.by_delta_e else
+                        f"{100 * p.fraction[v][i, j]:.0f} % of readers notice it, ΔE' {p.delta[v][i, j]:.1f}; "
+                        f"error when {need}")
                 out.append(DisplayFinding(
                     "cross-chart", WARNING,
                     f"{a.hex} ({', '.join(a.charts)}) and {b.hex} ({', '.join(b.charts)}) are on the same "
-                    f"display but merge under {visions[worst]} (ΔE' {d[1 + worst, i, j]:.1f}; needs "
-                    f"{err:.1f}): readers may take one chart's category for the other's",
-                    (a.hex, b.hex), tuple(dict.fromkeys(a.charts + b.charts))))
+                    f"display but merge under {v} ({seen}): readers may take one chart's category for the "
+                    "other's", (a.hex, b.hex), tuple(dict.fromkeys(a.charts + b.charts))))
     return out
 
 
@@ -293,9 +301,11 @@ def review_paths(paths, settings: Settings | None = None, *, whole: bool = False
     for f in files:
         try:
             if whole or f.suffix.lower() in (".svg", ".pdf"):
-                readings = [read_image(f, fallback, min_share=share, merge_radius=radius, page=page)]
+                readings = [read_image(f, fallback, min_share=share, merge_radius=radius, page=page,
+                                       viewing=settings.viewing_on)]
             else:
-                readings = [r for _, r in read_panels(f, fallback, min_share=share, merge_radius=radius)]
+                readings = [r for _, r in read_panels(f, fallback, min_share=share, merge_radius=radius,
+                                                      viewing=settings.viewing_on)]
         except ReadError as e:
             errors.append((str(f), str(e)))
             continue

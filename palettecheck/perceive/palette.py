@@ -64,6 +64,23 @@ class Perceived:
         return (self.background_delta[vision] if self.settings.by_delta_e
                 else self.background_fraction[vision])
 
+    def below(self, vision: str) -> tuple[np.ndarray, np.ndarray]:
+        """(n, n) booleans: pairs under the error line, and under the warning line,
+        for ``vision`` (the verdict's own figure: see :meth:`measure`)."""
+        m, (err, warn) = self.measure(vision), self.lines
+        return m < err, m < warn
+
+    def line_words(self) -> tuple[str, str | None]:
+        """What the error and warning lines mean, in words (warning None for ramps)."""
+        s = self.settings
+        if s.by_delta_e:
+            err, warn = self.lines
+            return f"ΔE' below {err:.1f}", (f"ΔE' below {warn:.1f}" if s.kind == "categorical" else None)
+        words = "of readers see the pair as different, side by side"
+        err = f"fewer than {100 * s.p_error_kind:.0f} % {words}"
+        warn = f"fewer than {100 * s.p_warn_kind:.0f} %" if s.kind == "categorical" else None
+        return err, warn
+
     @property
     def lines(self) -> tuple[float, float]:
         """(error line, warning line) in the units of :meth:`measure`."""

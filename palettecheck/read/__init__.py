@@ -45,9 +45,11 @@ def _exists(path: Path) -> tuple[bool, str | None]:
         return False, "not a valid file name"
 
 
-def read_source(source: str, background=WHITE, page: int = 1) -> Palette:
+def read_source(source: str, background=WHITE, page: int = 1, viewing=None) -> Palette:
     """A palette from one SOURCE: a palette or image file, or a single colour
-    (``page``: the page of a PDF chart, from 1)."""
+    (``page``: the page of a PDF chart, from 1; ``viewing``: the conditions a chart
+    is measured under, a Viewing or a function of its page colour such as
+    ``Settings.viewing_on``, so that extraction measures as the check does)."""
     path = Path(source)
     ext = path.suffix.lower() if len(source) < 4096 else ""
     exists, why = _exists(path)
@@ -69,8 +71,10 @@ def read_source(source: str, background=WHITE, page: int = 1) -> Palette:
         raise ReadError(f"{shown(source)}: cannot read {shown(ext) or 'files without an extension'} "
                         f"(palette files: {kinds})")
     module = import_module(f".{READERS[ext]}", __name__)
+    chart = {"viewing": viewing} if READERS[ext] in ("raster", "svg", "pdf") else {}
     try:
-        palette = module.read(path, background, page=page) if ext == ".pdf" else module.read(path, background)
+        palette = (module.read(path, background, page=page, **chart) if ext == ".pdf"
+                   else module.read(path, background, **chart))
     except ColorError as e:
         raise ReadError(f"{shown(source)}: {e}") from None
     if len(palette) == 0:
@@ -78,11 +82,12 @@ def read_source(source: str, background=WHITE, page: int = 1) -> Palette:
     return palette
 
 
-def read_sources(sources, background=WHITE, page: int = 1) -> Palette:
-    """All SOURCEs joined into one palette, in the order given."""
+def read_sources(sources, background=WHITE, page: int = 1, viewing=None) -> Palette:
+    """All SOURCEs joined into one palette, in the order given (``viewing``: see
+    :func:`read_source`)."""
     if not sources:
         raise ReadError("no colours given")
-    palettes = [read_source(s, background, page) for s in sources]
+    palettes = [read_source(s, background, page, viewing) for s in sources]
     out = palettes[0]
     for p in palettes[1:]:
         out = out + p

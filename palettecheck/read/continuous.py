@@ -10,6 +10,12 @@ grey outline meets the scale are trimmed from its ends. :func:`sample_path` repo
 it as evenly spaced steps, starting at the end nearest the background, checked as a
 sequential or a diverging ramp; :func:`ramp_order` puts given colours in ramp order
 the same way.
+
+The colour shown for a step is one the scale itself drew: a heat-map cell or a
+colour bar's row. A cell's edge next to the axes' frame or the bar's outline is a
+mix of the cell and that grey (or the page), and such a mix, though it may gather
+enough pixels to seed a group of its own along the path, lies off the colormap;
+:func:`edge_blends` finds these so that a step shows the colour they are mixed from.
 """
 
 from __future__ import annotations
@@ -20,7 +26,8 @@ import numpy as np
 
 from ..perceive.ucs import to_ucs
 
-__all__ = ["ramp_order", "find_continuous", "sample_path", "step_colors", "segment_distance", "SCALE_MIN_COLORS"]
+__all__ = ["ramp_order", "find_continuous", "sample_path", "step_colors", "segment_distance", "edge_blends",
+           "SCALE_MIN_COLORS"]
 
 #: Most steps reported for a continuous scale ...
 RAMP_STEPS = 9
@@ -61,7 +68,22 @@ END_MIN_FLAT = 0.02
 #: little over one merge radius; blends with the bar's outline and its neighbour
 #: rows leave that line).
 END_OFF_LINE = 1.0
-
+#: A step's colour is a mix of a scale colour ``s`` and a grey ``g`` (the page, the
+#: axes' frame, a bar's outline) when it lies within ``EXTEND_BLEND_TOL`` of
+#: ``(1 - a) s + a g`` for a grey share ``a`` in this range, mixed in sRGB-encoded
+#: values or in linear light (renderers do either), ...
+EDGE_MIX = (0.02, 0.9)
+#: ... and ``s`` holds at least this many times its flat fill: a cell's edge is a
+#: line of pixels along a filled area (an n-pixel cell: n² flat pixels, an edge
+#: row n), while two cells of the scale, one darker than the other (a colormap
+#: heading for black), hold fill of the same order. Measured while writing this on
+#: matplotlib's image charts: edge rows hold 1/10-1/30 of their cell's flat fill,
+#: a true cell that mixes to another 1/2-1/5 (practical choice).
+EDGE_FLAT_RATIO = 6.0
+#: Sources are looked for within this ΔE' of the colour: an edge's mix is a small
+#: share of the frame (measured on matplotlib's image charts while writing this:
+#: 5-10 % of black, 2-5 ΔE' from its cell), so nearby colours only (practical choice).
+EDGE_REACH = 12.0
 
 def segment_distance(x: np.ndarray, p: np.ndarray, q: np.ndarray, lo: float = 0.0, hi: float = 1.0):
     """Distance from point ``x`` to each segment ``p[i] + t (q[i] - p[i])``, t in [lo, hi]."""
@@ -293,18 +315,81 @@ def sample_path(jab, path, along, bg_jab):
     return [int(path[k]) for k in pick], share, kind
 
 
+def _linear(srgb255: np.ndarray) -> np.ndarray:
+    c = np.asarray(srgb255, dtype=float) / 255.0  # IEC 61966-2-1 decoding (M)
+    return np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
+
+
+def _encode(linear: np.ndarray) -> np.ndarray:
+    c = np.clip(linear, 0.0, 1.0)
+    return 255.0 * np.where(c <= 0.0031308, 12.92 * c, 1.055 * c ** (1.0 / 2.4) - 0.055)
+
+
+def edge_blends(cand, rgb, jab, flat, sources, grey_rgb, tol: float = EXTEND_BLEND_TOL):
+    """For each candidate colour, the source colour it is an edge blend of, or -1.
+
+    A candidate ``x`` is a blend when ``x ≈ (1 - a) s + a g`` for a source ``s``
+    (a colour of the scale holding at least ``EDGE_FLAT_RATIO`` times the flat fill
+    of ``x``), a grey ``g`` and ``a`` in ``EDGE_MIX``, mixed in sRGB-encoded values
+    or in linear light, within ``tol`` sRGB (0-255); of several sources the one
+    with the most flat fill is given. Vectorised over (candidate, source,
+    grey) triples, the sources first cut to those within ``EDGE_REACH`` ΔE' of each candidate."""
+    cand, sources = np.asarray(cand, dtype=int), np.asarray(sources, dtype=int)
+    grey_rgb = np.asarray(grey_rgb, dtype=float).reshape(-1, 3)
+    out = np.full(len(cand), -1)
+    if not len(cand) or not len(sources) or not len(grey_rgb):
+        return out
+    x, s = rgb[cand], rgb[sources]
+    xj, sj = jab[cand], jab[sources]
+    reach = (xj * xj).sum(-1)[:, None] + (sj * sj).sum(-1)[None, :] - 2.0 * (xj @ sj.T) <= EDGE_REACH ** 2
+    ci, si = np.nonzero(reach & (np.abs(x[:, None, :] - s[None, :, :]).max(-1) > tol)
+                        & (flat[sources][None, :] >= EDGE_FLAT_RATIO * flat[cand][:, None]))
+    if not len(ci):
+        return out
+    fits = np.zeros(len(ci), dtype=bool)
+    lo, hi = EDGE_MIX
+    for enc in (False, True):  # sRGB-encoded mixing, then linear light
+        xs, ss, gs = (x[ci], s[si], grey_rgb) if not enc else (_linear(x[ci]), _linear(s[si]), _linear(grey_rgb))
+        d = gs[None, :, :] - ss[:, None, :]  # (pairs, greys, 3)
+        dd = np.maximum((d * d).sum(-1), 1e-12)
+        a = np.clip(((xs - ss)[:, None, :] * d).sum(-1) / dd, lo, hi)
+        mix = ss[:, None, :] + a[..., None] * d
+        if enc:
+            mix = _encode(mix)
+        err = np.sqrt(((mix - x[ci][:, None, :]) ** 2).sum(-1))
+        fits |= (err <= tol).any(axis=1)
+    ci, si = ci[fits], si[fits]
+    if not len(ci):
+        return out
+    order = np.lexsort((-flat[sources][si], ci))  # per candidate, the source with most flat fill first
+    ci, si = ci[order], si[order]
+    first = np.ones(len(ci), dtype=bool)
+    first[1:] = ci[1:] != ci[:-1]
+    out[ci[first]] = sources[si[first]]
+    return out
+
+
 def step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat, grey_rgb) -> np.ndarray:
     """The colour shown for each picked step (a group of merged colours): the
     group's colour with the most flat fill (its seed may be a colour that gained
     weight from anti-aliased tints, a blend of two cells); at either end of the
     path, the group's colour reaching farthest onward along the path (a colour
     bar's last row), leaving out blends of the end with a grey (the bar's outline)
-    and colours with under ``END_MIN_FLAT`` of the group's flat fill.
+    and colours with under ``END_MIN_FLAT`` of the group's flat fill. Edge blends
+    (:func:`edge_blends`: a cell's edge mixed with a grey, ``grey_rgb``) are never
+    shown; a group holding nothing else shows the colour its blends are mixed from.
 
     ``group``, ``rgb``, ``jab``, ``flat``: per distinct colour, its group, sRGB,
     CAM02-UCS and flat-fill count before tints were moved to the marks."""
     path = [int(k) for k in path]
     grey_rgb = np.asarray(grey_rgb, dtype=float).reshape(-1, 3)
+    filled = flat > 0
+    cand = np.flatnonzero(filled & np.isin(group, np.asarray(picked, dtype=int)))
+    top = np.zeros(int(group.max()) + 2)
+    np.maximum.at(top, group[cand], flat[cand])
+    cand = cand[flat[cand] >= END_MIN_FLAT * top[group[cand]]]  # the only members ever shown
+    source = np.full(len(rgb), -1)
+    source[cand] = edge_blends(cand, rgb, jab, flat, np.flatnonzero(filled & np.isin(group, path)), grey_rgb)
 
     out = []
     for k in picked:
@@ -314,6 +399,11 @@ def step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat, grey_rgb) -> 
         if not len(members) or f.max() <= 0:
             out.append(g_rgb[k])
             continue
+        pure = source[members] < 0
+        if not (pure & (f > 0)).any():  # only edge blends: the colour they are mixed from
+            out.append(rgb[source[members[int(np.argmax(f))]]])
+            continue
+        f = np.where(pure, f, 0.0)
         if k not in (path[0], path[-1]) or len(path) < 3:
             out.append(rgb[members[int(np.argmax(f))]])
             continue

@@ -45,7 +45,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..color import Palette, Swatch, to_hex
-from ..config import SRGB_VIEWING
+from ..config import SRGB_VIEWING, Settings
 from ..perceive.ucs import to_ucs
 from .blends import explain_tints
 from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance, step_colors
@@ -436,11 +436,15 @@ def _overlap(x: np.ndarray, tops: np.ndarray, below: np.ndarray, bg: np.ndarray,
 
 def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, source: str = "",
             min_share: float = DEFAULT_MIN_SHARE, merge_radius: float = DEFAULT_MERGE_RADIUS,
-            viewing=SRGB_VIEWING) -> ChartColors:
+            viewing=None) -> ChartColors:
     """The data colours, neutrals, background and scale of a chart.
 
-    :param viewing: CIECAM02 conditions of every ΔE' measured here (the check's own,
-        ``Settings.viewing``, so extraction and check agree).
+    :param viewing: CIECAM02 conditions of every ΔE' measured here: a
+        :class:`~palettecheck.config.Viewing`, or a function from a page colour
+        (sRGB 0-255) to one, such as :meth:`Settings.viewing_on
+        <palettecheck.config.Settings.viewing_on>`; then the chart is measured under
+        the conditions of the background found (of its plot panel, when it has one),
+        as the check that follows measures it. Default: the default settings'.
     :param counts: distinct colours from a reader.
     :param fallback_background: sRGB 0-255, used when the border is transparent.
     :param min_share: leave out colours under this fraction of the non-background pixels.
@@ -450,7 +454,17 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
         raise ValueError(f"merge radius must be positive, not {merge_radius}")
     if not 0 <= min_share < 1:
         raise ValueError(f"minimum share must lie in 0-1, not {min_share}")
-    bg_rgb, bg_from = find_background(counts, fallback_background, viewing)
+    if viewing is None:  # the default settings': conditions that follow the page found
+        viewing = Settings().viewing_on
+    viewing_of = viewing if callable(viewing) else (lambda _rgb: viewing)
+    if counts.lossy:
+        # a lossy file's colours are grouped by how far compression noise moves code
+        # values, which does not depend on how the page adapts the eye: the merge radius
+        # and noise allowances were set at the sRGB reference, so it is read there (the
+        # check still measures the colours read under the page's conditions)
+        viewing_of = lambda _rgb: SRGB_VIEWING  # noqa: E731
+    bg_rgb, bg_from = find_background(counts, fallback_background, viewing_of(fallback_background))
+    viewing = viewing_of(bg_rgb)
     notes = list(counts.notes)
     flat_in = counts.weights if counts.flat is None else counts.flat
     rgb, w, flat, inv = _composite(counts.rgba, bg_rgb, counts.weights, flat_in, inverse=True)
@@ -467,6 +481,10 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
         canvas = float(counts.size[0] * counts.size[1]) if counts.size else np.inf
     panel_i = find_panel(w, flat, chroma_all, bg_i, canvas)
     flat_drawn = flat.copy()  # before tints are moved to their marks: what each colour holds itself
+    if panel_i is not None and viewing_of(rgb[panel_i]) != viewing:  # the marks are seen on the panel
+        viewing = viewing_of(rgb[panel_i])
+        jab = to_ucs(rgb, viewing)
+        chroma_all = np.hypot(jab[:, 1], jab[:, 2])
     tint_of = np.full(len(rgb), -1)
     if not counts.exact and not counts.lossy:  # anti-aliased tints count as coverage of the mark that made them
         for base in ([panel_i] if panel_i is not None else []) + [bg_i]:
@@ -525,7 +543,11 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     if found is not None:
         path, along = found
         picked, pshare, kind = sample_path(g_jab, path, along, g_jab[0])
-        shown = step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat_drawn, g_rgb[outline])
+        # greys a cell's or a bar row's edge may be mixed with: the page and every grey
+        # with some share, flat or not (the axes' frame is a line, the bar's outline too)
+        edge_greys = [k for k in range(len(seeds)) if g_chroma[k] < NEUTRAL_CHROMA
+                      and (k == 0 or share[k] >= PARENT_MIN_SHARE)]
+        shown = step_colors(picked, path, g_jab, g_rgb, group, rgb, jab, flat_drawn, g_rgb[edge_greys])
         colors = tuple((to_hex(c), float(s / plot)) for c, s in zip(shown, pshare))
         on_path = set(int(k) for k in path)
         neutrals = tuple((to_hex(g_rgb[k]), float(share[k])) for k in np.argsort(-gw)

@@ -39,7 +39,8 @@ from collections import defaultdict
 
 import numpy as np
 
-from ..color import to_hex
+from ..color import parse_color, to_hex
+from ..config import Settings
 from ..perceive.ucs import to_ucs
 from .continuous import sample_path
 from .extract import (
@@ -312,7 +313,7 @@ def _face(ax, page: np.ndarray) -> np.ndarray:
     return _over(np.asarray(ax.patch.get_facecolor(), dtype=float), page)[0]
 
 
-def _scale_reading(ink: _Ink, page: np.ndarray):
+def _scale_reading(ink: _Ink, page: np.ndarray, viewing=None):
     """The largest colour-mapped scale as evenly spaced steps: ``(colours, kind, notes)``."""
     by_name: dict[str, list] = {}
     for name, rgb, weight, hist, kind in ink.scales:
@@ -320,9 +321,10 @@ def _scale_reading(ink: _Ink, page: np.ndarray):
         entry[1] += weight
         entry[2] = entry[2] + hist / max(hist.sum(), 1.0) * weight
     name, (rgb, weight, hist) = max(by_name.items(), key=lambda kv: kv[1][1])
-    jab = to_ucs(rgb)
+    viewing = viewing or Settings().viewing_on(page)
+    jab = to_ucs(rgb, viewing)
     along = np.maximum(hist, 1e-6 * max(hist.max(), 1e-9))  # the whole colormap is shown in its bar
-    picked, share, kind = sample_path(jab, np.arange(CMAP_SAMPLES), along, to_ucs(page[None, :])[0])
+    picked, share, kind = sample_path(jab, np.arange(CMAP_SAMPLES), along, to_ucs(page[None, :], viewing)[0])
     colours = tuple((to_hex(rgb[k]), float(s / share.sum())) for k, s in zip(picked, share))
     notes = [f"continuous colour scale read from the colormap '{name}': shown as {len(colours)} evenly "
              f"spaced steps, checked as {kind}"]
@@ -334,8 +336,12 @@ def _scale_reading(ink: _Ink, page: np.ndarray):
 
 def read_figure(fig, fallback_background=(255.0, 255.0, 255.0), *, dpi: float | None = None,
                 min_share: float = DEFAULT_MIN_SHARE, merge_radius: float = DEFAULT_MERGE_RADIUS,
-                source: str = "<figure>") -> ChartColors:
+                source: str = "<figure>", viewing=None) -> ChartColors:
     """The colours of a live matplotlib Figure, read from its artists.
+
+    :param viewing: the CIECAM02 conditions colours are measured under, as
+        :func:`palettecheck.read.extract.extract` takes them (default: those of the
+        default settings, following the page).
 
     :param fallback_background: sRGB 0-255: what a transparent figure is shown on.
     :param dpi: the resolution sizes are measured at (default: the figure's own).
@@ -404,9 +410,13 @@ def read_figure(fig, fallback_background=(255.0, 255.0, 255.0), *, dpi: float | 
 
     notes = []
     raster_colors, raster_ink = [], 0.0
+    viewing_of = (Settings().viewing_on if viewing is None else viewing if callable(viewing)
+                  else (lambda _rgb: viewing))
+    seen_on = viewing_of(np.array(parse_color(panels[0])[0]) if panels else page)  # as the check measures
     if unread:
         raster_colors, raster_ink, raster_notes = _rasterise(fig, hidden, fallback, dpi, min_share, merge_radius,
-                                                             source, set(ink.ink) | {background, *panels})
+                                                             source, set(ink.ink) | {background, *panels},
+                                                             viewing_of)
         notes += raster_notes
     read_what = ", ".join(f"{n} {k}" for k, n in ink.read.items())
     notes.append(f"read from the figure's artists: {read_what or 'none'}"
@@ -424,7 +434,7 @@ def read_figure(fig, fallback_background=(255.0, 255.0, 255.0), *, dpi: float | 
     names = tuple((h, n[0]) for h, n in ink.names.items() if n)
     cat_total = sum(ink.ink.values()) + raster_ink
     if ink.scales:
-        colours, kind, scale_notes, weight = _scale_reading(ink, page)
+        colours, kind, scale_notes, weight = _scale_reading(ink, page, seen_on)
         if weight >= cat_total:
             if ink.ink or raster_colors:
                 scale_notes.append("colours of the other marks not checked: "
@@ -442,7 +452,7 @@ def read_figure(fig, fallback_background=(255.0, 255.0, 255.0), *, dpi: float | 
     entries += [(h, w / cat_total) for h, w in raster_colors]
     hexes = [h for h, _ in entries]
     rgb = np.array([[int(h[i:i + 2], 16) for i in (1, 3, 5)] for h in hexes], dtype=float)
-    chroma = np.hypot(*to_ucs(rgb)[:, 1:].T)
+    chroma = np.hypot(*to_ucs(rgb, seen_on)[:, 1:].T)
     colours = tuple(e for e, c in zip(entries, chroma) if c >= NEUTRAL_CHROMA)
     grey_data = tuple(e for e, c in zip(entries, chroma) if c < NEUTRAL_CHROMA and e[0] in ink.ink)
     grey_furn = tuple(e for e, c in zip(entries, chroma) if c < NEUTRAL_CHROMA and e[0] not in ink.ink)
@@ -454,7 +464,7 @@ def read_figure(fig, fallback_background=(255.0, 255.0, 255.0), *, dpi: float | 
                        tuple(dict.fromkeys(panels)), grey_data, names, marks)
 
 
-def _rasterise(fig, hidden, fallback, dpi, min_share, merge_radius, source, known):
+def _rasterise(fig, hidden, fallback, dpi, min_share, merge_radius, source, known, viewing=None):
     """Render the figure with the artists already read hidden, and read the pixels:
     ``([(hex, ink in pixels)], total ink, notes)`` of the colours not yet known."""
     from .raster import counts_from_image, open_image_bytes
@@ -473,7 +483,8 @@ def _rasterise(fig, hidden, fallback, dpi, min_share, merge_radius, source, know
         counts = counts_from_image(im)
     finally:
         im.close()
-    reading = extract(counts, fallback, source=source, min_share=min_share, merge_radius=merge_radius)
+    reading = extract(counts, fallback, source=source, min_share=min_share, merge_radius=merge_radius,
+                      viewing=viewing)
     rgb = counts.rgba[:, :3]
     bg = np.array([int(reading.background[i:i + 2], 16) for i in (1, 3, 5)], dtype=float)
     page = float(counts.weights[np.all(np.abs(rgb - bg) <= 0.5, axis=1)].sum())

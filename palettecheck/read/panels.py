@@ -111,8 +111,9 @@ def find_panels(pixels: np.ndarray, page) -> list[Panel]:
 
 
 def read_panels(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
-                merge_radius: float = DEFAULT_MERGE_RADIUS) -> list[tuple[Panel, ChartColors]]:
-    """Each chart on a raster dashboard page, read like a chart of its own.
+                merge_radius: float = DEFAULT_MERGE_RADIUS, viewing=None) -> list[tuple[Panel, ChartColors]]:
+    """Each chart on a raster dashboard page, read like a chart of its own
+    (``viewing``: as :func:`palettecheck.read.extract.extract` takes it).
 
     :returns: ``(panel, reading)`` pairs; one pair for an image of a single chart.
     :raises ReadError: naming the file, as :func:`palettecheck.read.read_image` does.
@@ -130,7 +131,7 @@ def read_panels(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
         rgb = im.convert("RGB")
         pixels = np.asarray(rgb)
         whole = extract(counts_from_image(im, lossy), fallback, source=str(path), min_share=min_share,
-                        merge_radius=merge_radius)
+                        merge_radius=merge_radius, viewing=viewing)
         page = [int(whole.background[i : i + 2], 16) for i in (1, 3, 5)]
         panels = find_panels(pixels, page)
         if len(panels) == 1:
@@ -141,7 +142,7 @@ def read_panels(path, background=None, *, min_share: float = DEFAULT_MIN_SHARE,
             counts = counts_from_image(crop, lossy, notes=(f"{panel.label} of {len(panels)} on the page, "
                                                            f"pixels {panel.where}",))
             reading = extract(counts, fallback, source=f"{path} ({panel.label})", min_share=min_share,
-                              merge_radius=merge_radius)
+                              merge_radius=merge_radius, viewing=viewing)
             out.append((panel, reading))
         return out
     except ReadError:

@@ -95,6 +95,7 @@ def read_counts(path, page: int = 1, max_pixels: int = LIMITS.image_pixels) -> C
         im.close()
 
 
-def read(path: Path, background, page: int = 1):
-    """The ``READERS`` entry point: one PDF page -> its palette."""
-    return extract(read_counts(path, page), background, source=str(path)).palette()
+def read(path: Path, background, page: int = 1, viewing=None):
+    """The ``READERS`` entry point: one PDF page -> its palette (``viewing``: as
+    :func:`~palettecheck.read.extract.extract` takes it, the check's)."""
+    return extract(read_counts(path, page), background, source=str(path), viewing=viewing).palette()

@@ -379,7 +379,8 @@ def read_counts(path, max_pixels: int = MAX_PIXELS) -> ColorCounts:
         im.close()
 
 
-def read(path: Path, background):
-    """The ``READERS`` entry point: one chart image -> its palette."""
+def read(path: Path, background, viewing=None):
+    """The ``READERS`` entry point: one chart image -> its palette (``viewing``: as
+    :func:`~palettecheck.read.extract.extract` takes it, the check's)."""
     counts = read_counts(path)
-    return extract(counts, background, source=str(path)).palette()
+    return extract(counts, background, source=str(path), viewing=viewing).palette()

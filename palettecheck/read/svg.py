@@ -637,6 +637,7 @@ def read_counts(path) -> ColorCounts:
                        size=size, notes=tuple(notes), painted_marks=(kinds, sizes))
 
 
-def read(path: Path, background):
-    """The ``READERS`` entry point: one SVG chart -> its palette."""
-    return extract(read_counts(path), background, source=str(path)).palette()
+def read(path: Path, background, viewing=None):
+    """The ``READERS`` entry point: one SVG chart -> its palette (``viewing``: as
+    :func:`~palettecheck.read.extract.extract` takes it, the check's)."""
+    return extract(read_counts(path), background, source=str(path), viewing=viewing).palette()

@@ -59,6 +59,7 @@ def color_facts(result) -> list[ColorFacts]:
     n = len(p.rgb255)
     contrast = {(c["color"], c["background"]): c for c in result.contrast()}
     stack = np.stack([p.delta[v] for v in s.visions]) if n else None  # (V, n, n)
+    errs = np.any(np.stack([p.below(v)[0] for v in s.visions]), axis=0) if n else None  # the verdict's own line
     out = []
     for i, w in enumerate(result.palette):
         closest = None
@@ -72,7 +73,7 @@ def color_facts(result) -> list[ColorFacts]:
             closest = (float(vals[v, k]), others[k], s.visions[v])
         ratios = tuple((float(contrast[i, b]["ratio"]), bool(contrast[i, b]["ok"])) for b in s.backgrounds)
         out.append(ColorFacts(i, w.hex, w.name or "", w.locked, ratios, closest,
-                               closest is not None and closest[0] < s.error_delta_e))
+                               closest is not None and bool(errs[i, others].any())))
     return out
 
 

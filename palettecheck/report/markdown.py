@@ -75,10 +75,21 @@ def settings_rows(result) -> list[tuple[str, str]]:
         visions += f" (severity {s.severity:g})"
     rows = [("source", result.palette.source or "colours given on the command line"),
             ("kind", s.kind), ("mark", s.mark), ("backgrounds", ", ".join(s.backgrounds)),
-            ("visions simulated", f"{visions}; model {s.cvd_model}"),
-            ("ΔE' error below", f"{s.error_delta_e:.1f}")]
-    if s.kind == "categorical":
-        rows.append(("ΔE' warning below", f"{s.warn_delta_e:.1f}"))
+            ("visions simulated", f"{visions}; model {s.cvd_model}")]
+    err, warn = result.perceived.line_words()
+    if s.by_delta_e:
+        rows.append(("ΔE' error below", f"{s.error_delta_e:.1f}"))
+        if warn:
+            rows.append(("ΔE' warning below", f"{s.warn_delta_e:.1f}"))
+    else:
+        rows.append(("error when", f"{err} (size model of Stone et al. 2014, p {s.p_error_kind:g}, "
+                                   f"{s.mark} marks at {s.mark_angle:.2g}°)"))
+        if warn:
+            rows.append(("warning when", f"{warn} (p {s.p_warn_kind:g})"))
+        if s.kind == "diverging":
+            rows.append(("mirrored arms: error when", f"fewer than {100 * s.p_error:.0f} % (p {s.p_error:g})"))
+        rows.append(("viewing conditions", f"Y_b {s.viewing.Y_b:.1f} %, L_A {s.viewing.L_A:.2f} cd/m², "
+                                           f"{s.viewing.surround} surround"))
     rows.append(("contrast needed", f"{s.contrast_needed:g}:1"))
     if s.fail_under:
         rows.append(("fails under score", f"{s.fail_under:g}"))

@@ -127,18 +127,20 @@ def seen_hexes(perceived, vision: str) -> list[str]:
 
 
 def pair_status(result) -> dict:
-    """``{(i, j): (severity, vision, ΔE')}`` for every checked pair below a threshold,
-    taking the worst vision the check compares pairs under."""
+    """``{(i, j): (severity, vision, ΔE')}`` for every checked pair below a line of the
+    verdict (the size model's fraction by default, see ``Perceived.measure``), taking
+    the worst vision the check compares pairs under; ΔE' is what is shown."""
     p, s = result.perceived, result.settings
     visions = [v for v in s.visions if v in p.delta]
+    err, warn = p.lines
     out = {}
     for i, j in pair_indices(len(p.rgb255), s.kind):
-        vals = [float(p.delta[v][i, j]) for v in visions]
+        vals = [float(p.measure(v)[i, j]) for v in visions]
         k = int(np.argmin(vals))
-        if vals[k] < s.error_delta_e:
-            out[i, j] = (ERROR, visions[k], vals[k])
-        elif s.kind == "categorical" and vals[k] < s.warn_delta_e:
-            out[i, j] = (WARNING, visions[k], vals[k])
+        if vals[k] < err:
+            out[i, j] = (ERROR, visions[k], float(p.delta[visions[k]][i, j]))
+        elif s.kind == "categorical" and vals[k] < warn:
+            out[i, j] = (WARNING, visions[k], float(p.delta[visions[k]][i, j]))
     return out
 
 
@@ -236,8 +238,8 @@ def matrix(result, theme: dict, key: str = "matrix") -> Drawn:
         from matplotlib.collections import PatchCollection
 
         ax.add_collection(PatchCollection(plain, facecolor="none", edgecolor=theme["grid"], linewidth=0.8))
-    limits = f"error below {s.error_delta_e:.1f}" + (f", warning below {s.warn_delta_e:.1f}"
-                                                      if s.kind == "categorical" else "")
+    err_words, warn_words = p.line_words()
+    limits = f"error: {err_words}" + (f"; warning: {warn_words}" if warn_words else "")
     scope = "every pair" if s.kind == "categorical" else "neighbouring steps only (faint: not compared)"
     _caption(fig, f"Smallest ΔE' of each pair over {', '.join(visions)}; checked: {scope}.\n"
                   f"Solid box: error, dashed: warning ({limits}); small text: the vision where it is smallest.", theme)
@@ -283,8 +285,8 @@ def plane(result, vision: str, theme: dict, limit: float | None = None, key: str
     joined = []
     if vision in s.visions:
         for i, j in checked:
-            d = float(p.delta[vision][i, j])
-            sev = ERROR if d < s.error_delta_e else WARNING if s.kind == "categorical" and d < s.warn_delta_e else None
+            m, (err, warn) = float(p.measure(vision)[i, j]), p.lines
+            sev = ERROR if m < err else WARNING if s.kind == "categorical" and m < warn else None
             if sev:
                 top.plot(jab[[i, j], 1], jab[[i, j], 2], color=theme["bad" if sev == ERROR else "warn"],
                          linewidth=2.2 if sev == ERROR else 1.4, linestyle="-" if sev == ERROR else "--",
@@ -346,7 +348,7 @@ def ramp_profile(result, theme: dict, key: str = "lightness") -> Drawn:
                    edgecolors=theme["ink"], linewidths=0.7, zorder=3, gid=f"{key}-points-{v}")
         if v in s.visions:
             for i in range(n - 1):
-                if float(p.delta[v][i, i + 1]) < s.error_delta_e:
+                if float(p.measure(v)[i, i + 1]) < p.lines[0]:
                     xm, ym = x[i] + 0.5, (J[i] + J[i + 1]) / 2
                     ax.scatter([xm], [ym], s=150, facecolors="none", edgecolors=theme["bad"], linewidths=1.8,
                                zorder=4, gid=f"{key}-fail-{v}-{i}")
@@ -368,7 +370,7 @@ def ramp_profile(result, theme: dict, key: str = "lightness") -> Drawn:
     ax.set_title("Lightness along the ramp", fontsize=FONT + 1, color=theme["ink"], loc="left")
     legend = ", ".join(f"{_short(v)} = {v}" for v in visions if _short(v) != v)
     _caption(fig, (f"{legend}.\n" if legend else "")
-             + f"Ring and cross: neighbours closer than ΔE' {s.error_delta_e:.1f} under that vision.", theme)
+             + f"Ring and cross: neighbours under the error line ({p.line_words()[0]}) under that vision.", theme)
     steps = sorted({f[0] for f in failing})
     alt = (f"Lightness J' of the {n} steps under {len(visions)} visions; "
            + (f"{len(steps)} step(s) too close to the next." if steps else "no step too close to the next."))

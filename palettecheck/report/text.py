@@ -42,6 +42,19 @@ def color_rows(result, color: bool) -> list[str]:
     return lines
 
 
+def _thresholds(result) -> str:
+    """The lines in force, in the words of the rule that decides (see README, "What is measured")."""
+    s = result.settings
+    err, warn = result.perceived.line_words()
+    if s.by_delta_e:
+        return f"thresholds: ΔE' error below {s.error_delta_e:.1f}" + (
+            f", warning below {s.warn_delta_e:.1f}" if warn else " between neighbours")
+    what = "a pair" if s.kind == "categorical" else "neighbours"
+    return (f"thresholds: error when {err.replace('the pair', what)} (size model, Stone et al. 2014, "
+            f"p {s.p_error_kind:g}" + (f"; warning below p {s.p_warn_kind:g}" if warn else "")
+            + (f"; mirrored arms p {s.p_error:g}" if s.kind == "diverging" else "") + ")")
+
+
 def render_text(result, color: bool = False) -> str:
     s = result.settings
     sc = result.score
@@ -51,9 +64,7 @@ def render_text(result, color: bool = False) -> str:
         f"{printable(result.palette.source or 'palette')}: {len(result.palette)} colour(s), {s.kind}, {s.mark} marks, "
         f"background {', '.join(s.backgrounds)}",
         f"score {sc.value}/100  {verdict}  ({counts['error']} error(s), {counts['warning']} warning(s))",
-        f"thresholds: ΔE' error below {s.error_delta_e:.1f}"
-        + (f", warning below {s.warn_delta_e:.1f}" if s.kind == "categorical" else " between neighbours")
-        + "; "
+        _thresholds(result) + "; "
         f"contrast {s.contrast_needed:g}:1; visions {', '.join(s.visions)}"
         + (f" at severity {s.severity:g}" if s.severity != 1 else ""),
         "",
