@@ -45,6 +45,9 @@ RATIO_RADIUS = 0.05
 #: Marks whose crossings carry less than this share of the strongest mark's luma
 #: deficit are crossings of two marks or of a mark and text, not marks.
 MIN_SUPPORT = 0.08
+#: ... and at least this many pixels' worth of coverage (a handful of crossings is an
+#: edge or a glyph that happens to share a chroma ratio).
+MIN_PIXELS = 8.0
 #: The darkest pixels of a mark: this quantile of its crossings' extreme luma.
 DARK_QUANTILE = 0.15
 
@@ -120,8 +123,12 @@ def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarra
         ym = float(np.quantile(e, DARK_QUANTILE if dark else 1.0 - DARK_QUANTILE))
         c = base_ycc[1:] + rk * (base_ycc[0] - ym)
         out.append([ym, *c])
+    out = np.asarray(out, dtype=float).reshape(-1, 3)
+    # support in pixels covered (luma deficit over the mark's own deficit per pixel), so
+    # that a light mark's crossings count as much as a dark one's
     support = np.bincount(label[label >= 0], weights=wt[label >= 0], minlength=len(seeds))
-    return np.asarray(out, dtype=float).reshape(-1, 3), support
+    support = support / np.maximum(np.abs(base_ycc[0] - out[:, 0]), 1.0)
+    return out, support
 
 
 def ycc_to_rgb(ycc: np.ndarray) -> np.ndarray:
@@ -140,10 +147,13 @@ def rgb_to_ycc(rgb: np.ndarray) -> np.ndarray:
 #: A distinct colour within this YCbCr distance of a thin mark's washed-out tints
 #: (luma and chroma each blended by their own amount) is one of them.
 TINT_TOLERANCE = 8.0
+#: A thin mark's pixel keeps at least this share of its chroma per unit of luma
+#: coverage (about 0.4 is measured on a 1-px line's core at quality 90; practical, no source).
+MIN_CHROMA_SHARE = 0.25
 
 
 def explain_thin(rgb: np.ndarray, w: np.ndarray, flat: np.ndarray, base: int, marks_rgb: np.ndarray,
-                 author_min: float, near_base: np.ndarray):
+                 author_min: float, near_base: np.ndarray, grey: np.ndarray):
     """Move the pixels of a JPEG's washed-out thin-mark tints to the rebuilt marks.
 
     A tint of mark ``m`` over base ``b`` after 4:2:0 coding is ``b + t1 (luma of m - b)
@@ -155,6 +165,8 @@ def explain_thin(rgb: np.ndarray, w: np.ndarray, flat: np.ndarray, base: int, ma
     :param author_min: colours mostly in flat fill and covering more than this are an
         author's colours (a pale bar), never tints.
     :param near_base: colours left to the base (noise around it).
+    :param grey: neutral colours; those holding more than half a mark's luma are text or
+        axes of about its lightness, not its tints.
     :returns: ``(w, flat, tint_of)`` for ``rgb`` followed by the marks.
     """
     n, k = len(rgb), len(marks_rgb)
@@ -168,14 +180,16 @@ def explain_thin(rgb: np.ndarray, w: np.ndarray, flat: np.ndarray, base: int, ma
     dy = np.where(np.abs(d[:, 0]) > 1e-6, d[:, 0], 1e-6)
     t1 = np.clip(x[:, :1] / dy[None, :], 0.0, 1.0)  # (n, k)
     cc = np.maximum((d[:, 1:] ** 2).sum(-1), 1e-6)
-    t2 = np.clip((x[:, 1:] @ d[:, 1:].T) / cc[None, :], 0.0, 1.0)
+    # the chroma is spread, not lost: a pixel holding much of the mark's luma holds at
+    # least part of its chroma (a grey of the mark's lightness is not one of its tints)
+    t2 = np.clip((x[:, 1:] @ d[:, 1:].T) / cc[None, :], MIN_CHROMA_SHARE * t1, 1.0)
     res_y = x[:, :1] - t1 * d[None, :, 0]
     res_c = ((x[:, None, 1:] - t2[..., None] * d[None, :, 1:]) ** 2).sum(-1)
     dist = np.sqrt(res_y ** 2 + res_c)
     j = np.argmin(dist, axis=1)
     rows = np.arange(n)
     a = t1[rows, j]
-    hit = (dist[rows, j] <= TINT_TOLERANCE) & (a < 0.97) & ~near_base & ~((flat >= 0.5 * w)[:n] & (w[:n] > author_min))
+    hit = (dist[rows, j] <= TINT_TOLERANCE) & ~near_base & ~(grey & (a > 0.5)) & ~((flat >= 0.5 * w)[:n] & (w[:n] > author_min))
     hit[base] = False
     hit &= w[:n] > 0
     idx = np.flatnonzero(hit)

@@ -45,10 +45,10 @@ FLAT_RUN = 3
 #: In lossy files, neighbours differing by at most this much per channel (0-255)
 #: count as equal when looking for flat fill (compression noise).
 LOSSY_STEP = 6
-#: Experimental, off: decode JPEGs as YCbCr and rebuild thin marks' chroma
-#: (read/chroma.py). On, it lifts 1-px line recall in JPEG but breaks a translucent
-#: scatter and a dark pie (issue 11, branch jpeg-lines); kept off until those pass.
-REBUILD_THIN_JPEG = False
+#: Decode JPEGs as YCbCr and rebuild thin marks' chroma (read/chroma.py); the
+#: distinct values are converted to RGB bit-exact as the decoder would, so every other
+#: colour reads as from an RGB decode. False reads JPEGs as before (for comparisons).
+REBUILD_THIN_JPEG = True
 #: Pixels per block of rows read at once.
 _BLOCK = 1 << 20
 
@@ -186,6 +186,21 @@ def _channels(values: np.ndarray, mode: str) -> np.ndarray:
     return out
 
 
+def _jpeg_ycc_to_rgb(ycc: np.ndarray) -> np.ndarray:
+    """A JPEG decoder's own YCbCr -> RGB: JFIF's full-range BT.601 inverse (ITU-T T.871)
+    in 16-bit fixed point rounded as the IJG library's colour converter does (M: its
+    jdcolor.c tables; checked bit-exact against Pillow's RGB decode in the tests)."""
+    bits, half = 16, 1 << 15
+    def fix(v):
+        return int(v * (1 << bits) + 0.5)
+    y = ycc[:, 0].astype(np.int64)
+    cb, cr = ycc[:, 1].astype(np.int64) - 128, ycc[:, 2].astype(np.int64) - 128
+    r = y + ((fix(1.40200) * cr + half) >> bits)
+    g = y + ((-fix(0.34414) * cb - fix(0.71414) * cr + half) >> bits)
+    b = y + ((fix(1.77200) * cb + half) >> bits)
+    return np.clip(np.stack([r, g, b], 1), 0, 255).astype(np.uint8)
+
+
 def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list, ycc: bool = False) -> np.ndarray:
     """``(n, 4)`` RGBA (sRGB 0-255) from distinct RGBA/RGBX/CMYK values (``ycc``: the
     RGBX values hold a JPEG decoder's Y, Cb, Cr, converted here by Pillow)."""
@@ -195,9 +210,9 @@ def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list, ycc: b
     if len(quad) == 0:
         return np.zeros((0, 4))
     raw = np.ascontiguousarray(np.rint(quad).astype(np.uint8))
+    if ycc:  # as the decoder would have converted them, so the colours are those of an RGB decode
+        raw[:, :3] = _jpeg_ycc_to_rgb(raw[:, :3])
     strip = Image.frombytes(mode, (len(quad), 1), raw.tobytes())
-    if ycc:
-        strip = Image.frombytes("YCbCr", (len(quad), 1), np.ascontiguousarray(raw[:, :3]).tobytes())
     strip = strip if mode == "CMYK" else strip.convert("RGB")
     converted = apply_icc(strip, icc, notes) if icc else None
     if converted is None:
