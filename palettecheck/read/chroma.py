@@ -48,6 +48,10 @@ MIN_SUPPORT = 0.08
 #: ... and at least this many pixels' worth of coverage (a handful of crossings is an
 #: edge or a glyph that happens to share a chroma ratio).
 MIN_PIXELS = 8.0
+#: Marks whose crossings' median luma core (pixels off the base in luma) is longer than
+#: this are wide enough to hold their own colour: measured 2-3 on 1-px lines at quality
+#: 90 (the coder's ringing adds a pixel or two), 4 on 2-px ones, 7-8 on 6-px ones.
+MAX_CORE = 5.0
 #: The darkest pixels of a mark: this quantile of its crossings' extreme luma.
 DARK_QUANTILE = 0.15
 
@@ -56,13 +60,18 @@ def _crossings(lines: np.ndarray, base: np.ndarray):
     """``(r (n, 2), D, extreme luma)`` of each thin crossing of ``base`` along the rows
     of ``lines`` (uint32 packed Y, Cb, Cr in bytes 0-2)."""
     if lines.size == 0:
-        return np.zeros((0, 2)), np.zeros(0), np.zeros(0)
+        return np.zeros((0, 2)), np.zeros(0), np.zeros(0), np.zeros(0)
     ch = lines.view(np.uint8).reshape(lines.shape[0], lines.shape[1], 4)
-    y = ch[..., 0].astype(np.int16)
-    dy = int(round(base[0])) - y
-    dcb = ch[..., 1].astype(np.int16) - int(round(base[1]))
-    dcr = ch[..., 2].astype(np.int16) - int(round(base[2]))
-    off = (np.abs(dy) > OFF_Y) | (np.abs(dcb) > OFF_C) | (np.abs(dcr) > OFF_C)
+    b = [int(round(v)) for v in base[:3]]
+
+    def away(c, t):  # |channel - base| > t, on the bytes as they are (no widening of the image)
+        hi, lo = b[c] + t, b[c] - t
+        out = ch[..., c] > min(hi, 255)
+        if lo > 0:
+            out |= ch[..., c] < lo
+        return out
+
+    off = away(0, OFF_Y) | away(1, OFF_C) | away(2, OFF_C)
     m = off.copy()
     for s in range(1, HALO + 1):
         m[:, s:] |= off[:, :-s]
@@ -72,47 +81,59 @@ def _crossings(lines: np.ndarray, base: np.ndarray):
     edge = np.flatnonzero(flat[1:] != flat[:-1]) + 1
     starts, ends = edge[::2], edge[1::2]
     if len(starts) == 0:
-        return np.zeros((0, 2)), np.zeros(0), np.zeros(0)
+        return np.zeros((0, 2)), np.zeros(0), np.zeros(0), np.zeros(0)
     keep = (ends - starts) <= MAX_CROSSING
     starts, ends = starts[keep], ends[keep]
     if len(starts) == 0:
-        return np.zeros((0, 2)), np.zeros(0), np.zeros(0)
-    bounds = np.stack([starts, ends], 1).ravel()
-    def total(a):
-        return np.add.reduceat(a.ravel().astype(float), bounds)[::2]
-    d = total(dy)
-    s = np.stack([total(dcb), total(dcr)], 1)
-    lo = np.minimum.reduceat(y.ravel(), bounds)[::2].astype(float)
-    hi = np.maximum.reduceat(y.ravel(), bounds)[::2].astype(float)
+        return np.zeros((0, 2)), np.zeros(0), np.zeros(0), np.zeros(0)
+    # the crossings' own pixels, gathered (a small share of the scanlines)
+    size = ends - starts
+    first = np.cumsum(size) - size
+    pos = np.arange(int(size.sum())) + np.repeat(starts - first, size)
+    px = ch.reshape(-1, 4)[pos, :3].astype(np.int32) - np.asarray(b, dtype=np.int32)
+    sums = np.add.reduceat(px, first, axis=0).astype(float)
+    d = -sums[:, 0]
+    s = sums[:, 1:]
+    core = np.add.reduceat(np.abs(px[:, 0]) > OFF_Y, first).astype(float)  # pixels off the base in luma
+    lo = np.minimum.reduceat(px[:, 0], first).astype(float) + b[0]
+    hi = np.maximum.reduceat(px[:, 0], first).astype(float) + b[0]
     ok = np.abs(d) >= MIN_DEFICIT
-    d, s, lo, hi = d[ok], s[ok], lo[ok], hi[ok]
-    return s / d[:, None], d, np.where(d > 0, lo, hi)
+    d, s, lo, hi, core = d[ok], s[ok], lo[ok], hi[ok], core[ok]
+    return s / d[:, None], d, np.where(d > 0, lo, hi), core
 
 
 def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarray,
                min_crossings: int = 3):
     """Colours (YCbCr, ``(k, 3)``) of the thin marks crossing the sampled rows and
-    columns over ``base_ycc`` (its Y, Cb, Cr, 0-255), and the luma deficit their
-    crossings carry (their support)."""
+    columns over ``base_ycc`` (its Y, Cb, Cr, 0-255), the pixels' worth of coverage
+    their crossings carry (their support), and their crossings' median luma core."""
     parts = [_crossings(lines, base_ycc) for lines in (row_lines, col_lines)]
     r = np.concatenate([p[0] for p in parts])
     d = np.concatenate([p[1] for p in parts])
     ext = np.concatenate([p[2] for p in parts])
+    core = np.concatenate([p[3] for p in parts])
     if len(d) == 0:
-        return np.zeros((0, 3)), np.zeros(0)
-    wt = np.abs(d)
-    order = np.argsort(-wt, kind="stable")
+        return np.zeros((0, 3)), np.zeros(0), np.zeros(0)
+    order = np.argsort(-np.abs(d), kind="stable")
+    # kept in order of the first ratio, so that a crossing's neighbours are a slice
+    by_x = np.argsort(r[:, 0], kind="stable")
+    rank = np.empty_like(by_x)
+    rank[by_x] = np.arange(len(by_x))
+    r, d, ext, core, order = r[by_x], d[by_x], ext[by_x], core[by_x], rank[order]
+    wt, sign, rx = np.abs(d), np.sign(d), r[:, 0]
     seeds: list[int] = []
     label = np.full(len(d), -1)
     for i in order:  # greedy: the strongest crossing left opens a mark; those near its ratio join it
         if label[i] >= 0:
             continue
-        near = (label < 0) & (np.sign(d) == np.sign(d[i])) & \
-            (((r - r[i]) ** 2).sum(-1) <= RATIO_RADIUS ** 2)
+        a = int(np.searchsorted(rx, rx[i] - RATIO_RADIUS, side="left"))
+        b = int(np.searchsorted(rx, rx[i] + RATIO_RADIUS, side="right"))
+        near = (label[a:b] < 0) & (sign[a:b] == sign[i]) & \
+            (((r[a:b] - r[i]) ** 2).sum(-1) <= RATIO_RADIUS ** 2)
         if near.sum() < min_crossings:
             label[i] = -2
             continue
-        label[near] = len(seeds)
+        label[a:b][near] = len(seeds)
         seeds.append(int(i))
     out = []
     for k in range(len(seeds)):
@@ -128,7 +149,8 @@ def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarra
     # that a light mark's crossings count as much as a dark one's
     support = np.bincount(label[label >= 0], weights=wt[label >= 0], minlength=len(seeds))
     support = support / np.maximum(np.abs(base_ycc[0] - out[:, 0]), 1.0)
-    return out, support
+    width = np.array([np.median(core[label == k]) for k in range(len(seeds))])
+    return out, support, width
 
 
 def ycc_to_rgb(ycc: np.ndarray) -> np.ndarray:
@@ -175,27 +197,41 @@ def explain_thin(rgb: np.ndarray, w: np.ndarray, flat: np.ndarray, base: int, ma
     tint_of = np.full(n + k, -1)
     if not k:
         return w, flat, tint_of
-    x = rgb_to_ycc(rgb) - rgb_to_ycc(rgb[base])
-    d = rgb_to_ycc(marks_rgb) - rgb_to_ycc(rgb[base])  # (k, 3)
-    dy = np.where(np.abs(d[:, 0]) > 1e-6, d[:, 0], 1e-6)
-    t1 = np.clip(x[:, :1] / dy[None, :], 0.0, 1.0)  # (n, k)
-    cc = np.maximum((d[:, 1:] ** 2).sum(-1), 1e-6)
+    # only colours that may be tints are measured (most of a JPEG's are noise around the base)
+    cand = (w[:n] > 0) & ~near_base & ~((flat >= 0.5 * w)[:n] & (w[:n] > author_min))
+    cand[base] = False
+    cand = np.flatnonzero(cand)
+    b = rgb_to_ycc(rgb[base])
+    x = (rgb_to_ycc(rgb[cand]) - b).astype(np.float32)
+    d = (rgb_to_ycc(marks_rgb) - b).astype(np.float32)  # (k, 3)
+    dy = np.where(np.abs(d[:, 0]) > 1e-6, d[:, 0], 1e-6).astype(np.float32)
+    cc = np.maximum((d[:, 1:] ** 2).sum(-1), 1e-6).astype(np.float32)
+    # (m, k) products, in place and in single precision (a 4K chart has some 60 000 colours)
+    t1 = x[:, :1] * (1.0 / dy)[None, :]  # luma share
+    np.maximum(t1, 0.0, out=t1)
+    np.minimum(t1, 1.0, out=t1)
     # the chroma is spread, not lost: a pixel holding much of the mark's luma holds at
     # least part of its chroma (a grey of the mark's lightness is not one of its tints)
-    t2 = np.clip((x[:, 1:] @ d[:, 1:].T) / cc[None, :], MIN_CHROMA_SHARE * t1, 1.0)
-    res_y = x[:, :1] - t1 * d[None, :, 0]
-    res_c = ((x[:, None, 1:] - t2[..., None] * d[None, :, 1:]) ** 2).sum(-1)
-    dist = np.sqrt(res_y ** 2 + res_c)
-    j = np.argmin(dist, axis=1)
-    rows = np.arange(n)
-    a = t1[rows, j]
-    hit = (dist[rows, j] <= TINT_TOLERANCE) & ~near_base & ~(grey & (a > 0.5)) & ~((flat >= 0.5 * w)[:n] & (w[:n] > author_min))
-    hit[base] = False
-    hit &= w[:n] > 0
-    idx = np.flatnonzero(hit)
-    tint_of[idx] = n + j[idx]
-    np.add.at(w, n + j[idx], a[idx] * w[idx])
-    w[base] += float(((1.0 - a[idx]) * w[idx]).sum())
+    xd = x[:, 1:] @ d[:, 1:].T
+    t2 = xd * (1.0 / cc)[None, :]
+    np.maximum(t2, MIN_CHROMA_SHARE * t1, out=t2)
+    np.minimum(t2, 1.0, out=t2)
+    dist2 = t1 * dy[None, :]
+    np.subtract(x[:, :1], dist2, out=dist2)
+    dist2 *= dist2  # luma residual²
+    xd *= -2.0
+    xd += t2 * cc[None, :]
+    xd *= t2
+    dist2 += xd  # + |x_c - t2 d_c|² less |x_c|²
+    dist2 += (x[:, 1:] ** 2).sum(-1)[:, None]
+    jm = np.argmin(dist2, axis=1)
+    rows = np.arange(len(cand))
+    a_c = t1[rows, jm].astype(float)
+    hit = (dist2[rows, jm] <= TINT_TOLERANCE ** 2) & ~(grey[cand] & (a_c > 0.5))
+    idx, j, a = cand[hit], jm[hit], a_c[hit]
+    tint_of[idx] = n + j
+    w[n:] += np.bincount(j, weights=a * w[idx], minlength=k)
+    w[base] += float(((1.0 - a) * w[idx]).sum())
     w[idx] = 0.0
     flat[idx] = 0.0
     return w, flat, tint_of

@@ -601,11 +601,11 @@ def _between(r: np.ndarray, others: np.ndarray, radius: float) -> bool:
 def _thin_jpeg_marks(counts, rgb, w, flat, jab, chroma, tint_of, noise, bg_i, panel_i, total, viewing):
     """Append the thin marks rebuilt from a JPEG's YCbCr scanlines (:mod:`.chroma`) and
     move their washed-out tints to them, over the page and the plot panel."""
-    from .chroma import MIN_PIXELS, MIN_SUPPORT, explain_thin, rgb_to_ycc, thin_marks, ycc_to_rgb
+    from .chroma import MAX_CORE, MIN_PIXELS, MIN_SUPPORT, explain_thin, rgb_to_ycc, thin_marks, ycc_to_rgb
 
     rows, cols = counts.ycc_lines
     for base in [bg_i] + ([panel_i] if panel_i is not None else []):
-        ycc, support = thin_marks(rows, cols, rgb_to_ycc(rgb[base]))
+        ycc, support, core = thin_marks(rows, cols, rgb_to_ycc(rgb[base]))
         if not len(ycc):
             continue
         found = np.clip(ycc_to_rgb(ycc), 0.0, 255.0)
@@ -619,6 +619,9 @@ def _thin_jpeg_marks(counts, rgb, w, flat, jab, chroma, tint_of, noise, bg_i, pa
         if len(solid):
             to_solid = np.sqrt(((fj[:, None, :] - jab[solid][None]) ** 2).sum(-1)).min(axis=1)
             strong &= to_solid > 2.0 * DEFAULT_MERGE_RADIUS
+        # a line wide enough to hold its own colour (its crossings' luma cores longer than a
+        # few pixels) is read from that, as in any image
+        strong &= core <= MAX_CORE
         # where two marks cross, a crossing's chroma ratio is a mix of theirs: a mark whose
         # ratio lies between two stronger ones' is such a meeting, not a mark
         b = rgb_to_ycc(rgb[base])
