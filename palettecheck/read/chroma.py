@@ -63,12 +63,13 @@ def _crossings(lines: np.ndarray, base: np.ndarray):
         return np.zeros((0, 2)), np.zeros(0), np.zeros(0), np.zeros(0)
     ch = lines.view(np.uint8).reshape(lines.shape[0], lines.shape[1], 4)
     b = [int(round(v)) for v in base[:3]]
+    planes = np.ascontiguousarray(np.moveaxis(ch[..., :3], -1, 0))  # Y, Cb, Cr apart, as bytes
 
     def away(c, t):  # |channel - base| > t, on the bytes as they are (no widening of the image)
         hi, lo = b[c] + t, b[c] - t
-        out = ch[..., c] > min(hi, 255)
+        out = planes[c] > min(hi, 255)
         if lo > 0:
-            out |= ch[..., c] < lo
+            out |= planes[c] < lo
         return out
 
     off = away(0, OFF_Y) | away(1, OFF_C) | away(2, OFF_C)
@@ -100,6 +101,19 @@ def _crossings(lines: np.ndarray, base: np.ndarray):
     ok = np.abs(d) >= MIN_DEFICIT
     d, s, lo, hi, core = d[ok], s[ok], lo[ok], hi[ok], core[ok]
     return s / d[:, None], d, np.where(d > 0, lo, hi), core
+
+
+def _group_quantile(values: np.ndarray, label: np.ndarray, k: int, q: np.ndarray) -> np.ndarray:
+    """Quantile ``q[g]`` of the values of each group ``g`` in ``0..k-1`` (every group
+    non-empty), interpolated linearly between order statistics as numpy's default."""
+    order = np.lexsort((values, label))
+    v = values[order]
+    n = np.bincount(label, minlength=k)
+    start = np.cumsum(n) - n
+    pos = q * (n - 1)
+    lo = np.floor(pos).astype(int)
+    hi = np.minimum(lo + 1, n - 1)
+    return v[start + lo] + (pos - lo) * (v[start + hi] - v[start + lo])
 
 
 def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarray,
@@ -135,21 +149,20 @@ def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarra
             continue
         label[a:b][near] = len(seeds)
         seeds.append(int(i))
-    out = []
-    for k in range(len(seeds)):
-        mine = label == k
-        rk = (r[mine] * wt[mine, None]).sum(0) / wt[mine].sum()
-        dark = d[seeds[k]] > 0
-        e = np.sort(ext[mine])
-        ym = float(np.quantile(e, DARK_QUANTILE if dark else 1.0 - DARK_QUANTILE))
-        c = base_ycc[1:] + rk * (base_ycc[0] - ym)
-        out.append([ym, *c])
-    out = np.asarray(out, dtype=float).reshape(-1, 3)
+    k = len(seeds)
+    if not k:
+        return np.zeros((0, 3)), np.zeros(0), np.zeros(0)
+    mine = label >= 0
+    lab, wm = label[mine], wt[mine]
+    wsum = np.bincount(lab, weights=wm, minlength=k)
+    rk = np.stack([np.bincount(lab, weights=r[mine, c] * wm, minlength=k) for c in range(2)], 1) / wsum[:, None]
+    dark = d[np.asarray(seeds)] > 0
+    ym = _group_quantile(ext[mine], lab, k, np.where(dark, DARK_QUANTILE, 1.0 - DARK_QUANTILE))
+    out = np.column_stack([ym, base_ycc[1:] + rk * (base_ycc[0] - ym)[:, None]])
     # support in pixels covered (luma deficit over the mark's own deficit per pixel), so
     # that a light mark's crossings count as much as a dark one's
-    support = np.bincount(label[label >= 0], weights=wt[label >= 0], minlength=len(seeds))
-    support = support / np.maximum(np.abs(base_ycc[0] - out[:, 0]), 1.0)
-    width = np.array([np.median(core[label == k]) for k in range(len(seeds))])
+    support = wsum / np.maximum(np.abs(base_ycc[0] - out[:, 0]), 1.0)
+    width = _group_quantile(core[mine], lab, k, np.full(k, 0.5))
     return out, support, width
 
 
