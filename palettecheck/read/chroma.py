@@ -53,7 +53,7 @@ MIN_PIXELS = 8.0
 #: 90 (the coder's ringing adds a pixel or two), 4 on 2-px ones, 7-8 on 6-px ones.
 MAX_CORE = 5.0
 #: The darkest pixels of a mark: this quantile of its crossings' extreme luma.
-DARK_QUANTILE = 0.15
+DARK_QUANTILE = 0.08
 
 
 def _crossings(lines: np.ndarray, base: np.ndarray):
