@@ -42,6 +42,9 @@ MAX_CROSSING = 14
 MIN_DEFICIT = 15.0
 #: Crossings whose chroma ratios lie within this of a stronger one's belong to its mark.
 RATIO_RADIUS = 0.05
+#: ... widened in proportion to the ratio beyond this size: a light mark's crossings have
+#: a small luma deficit, so their ratios scatter more (1-px orange splits at 0.05 alone).
+RATIO_SCALE = 0.4
 #: Marks whose crossings carry less than this share of the strongest mark's luma
 #: deficit are crossings of two marks or of a mark and text, not marks.
 MIN_SUPPORT = 0.08
@@ -140,10 +143,11 @@ def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarra
     for i in order:  # greedy: the strongest crossing left opens a mark; those near its ratio join it
         if label[i] >= 0:
             continue
-        a = int(np.searchsorted(rx, rx[i] - RATIO_RADIUS, side="left"))
-        b = int(np.searchsorted(rx, rx[i] + RATIO_RADIUS, side="right"))
+        rad = RATIO_RADIUS * max(1.0, float(np.hypot(*r[i])) / RATIO_SCALE)
+        a = int(np.searchsorted(rx, rx[i] - rad, side="left"))
+        b = int(np.searchsorted(rx, rx[i] + rad, side="right"))
         near = (label[a:b] < 0) & (sign[a:b] == sign[i]) & \
-            (((r[a:b] - r[i]) ** 2).sum(-1) <= RATIO_RADIUS ** 2)
+            (((r[a:b] - r[i]) ** 2).sum(-1) <= rad ** 2)
         if near.sum() < min_crossings:
             label[i] = -2
             continue
