@@ -138,12 +138,13 @@ def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarra
     rank[by_x] = np.arange(len(by_x))
     r, d, ext, core, order = r[by_x], d[by_x], ext[by_x], core[by_x], rank[order]
     wt, sign, rx = np.abs(d), np.sign(d), r[:, 0]
+    radius = RATIO_RADIUS * np.maximum(1.0, np.hypot(r[:, 0], r[:, 1]) / RATIO_SCALE)
     seeds: list[int] = []
     label = np.full(len(d), -1)
     for i in order:  # greedy: the strongest crossing left opens a mark; those near its ratio join it
         if label[i] >= 0:
             continue
-        rad = RATIO_RADIUS * max(1.0, float(np.hypot(*r[i])) / RATIO_SCALE)
+        rad = radius[i]
         a = int(np.searchsorted(rx, rx[i] - rad, side="left"))
         b = int(np.searchsorted(rx, rx[i] + rad, side="right"))
         near = (label[a:b] < 0) & (sign[a:b] == sign[i]) & \

@@ -363,11 +363,11 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     vals, cnts, flat, bvals, bcnts, (rows, cols, step) = _count_uint32(im, mode, lossy)
     size = im.size
     common = int(np.argmax(cnts)) if len(cnts) else None
-    lines = (scan_runs(np.concatenate(rows), vals, common), scan_runs(np.concatenate(cols).T, vals, common), step) \
-        if rows else None
+    row_px, col_px = (np.concatenate(rows), np.ascontiguousarray(np.concatenate(cols).T)) if rows else (None, None)
+    lines = (scan_runs(row_px, vals, common), scan_runs(col_px, vals, common), step) if rows else None
     rgba = _to_srgb(_channels(vals, mode), mode, icc, notes, ycc)
     border = _to_srgb(_channels(bvals, mode), mode, icc, [], ycc)
-    ycc_lines = (np.concatenate(rows), np.ascontiguousarray(np.concatenate(cols).T)) if ycc and rows else None
+    ycc_lines = (row_px, col_px) if ycc and rows else None
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),
                        exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines,
                        ycc_lines=ycc_lines)
