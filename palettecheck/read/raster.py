@@ -343,7 +343,8 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     icc = im.info.get("icc_profile") or None
     # a JPEG's YCbCr as decoded, before the RGB conversion clips it: thin marks' chroma
     # is rebuilt from it (read/chroma.py); distinct values are converted afterwards
-    ycc = REBUILD_THIN_JPEG and lossy and im.format == "JPEG" and im.mode == "RGB" and im.info.get("adobe_transform", 1) != 0 \
+    ycc = REBUILD_THIN_JPEG and lossy and im.format == "JPEG" and im.mode == "RGB" \
+        and im.info.get("adobe_transform", 1) != 0 \
         and getattr(im, "draft", None) is not None and im.draft("YCbCr", im.size) is not None \
         and im.mode == "YCbCr"
     im.load()
