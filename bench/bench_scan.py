@@ -223,8 +223,18 @@ def main() -> None:
             ch = packed.view(np.uint8).reshape(-1, 4).astype(np.int16)
             np.flatnonzero(np.abs(ch[1:] - ch[:-1]).max(axis=1) > raster.LOSSY_STEP)
 
-        pillow_jpeg(), scan_jpeg()
-        t_pj, t_sj, t_u8, t_i16 = interleaved([pillow_jpeg, scan_jpeg, runs_uint8, runs_int16], 7)
+        def scan_jpeg_plain():  # as before the thin-mark chroma rebuild (read/chroma.py), for comparison
+            raster.REBUILD_THIN_JPEG = False
+            try:
+                scan_jpeg()
+            finally:
+                raster.REBUILD_THIN_JPEG = True
+
+        pillow_jpeg(), scan_jpeg(), scan_jpeg_plain()
+        t_pj, t_sj, t_u8, t_i16, t_sp = interleaved([pillow_jpeg, scan_jpeg, runs_uint8, runs_int16,
+                                                      scan_jpeg_plain], 7)
+        print(f"ratio JPEG scan with / without the thin-mark chroma rebuild: {t_sj / t_sp:.2f}x "
+              f"(target <= 1.1x; without: {t_sp / t_pj:.2f}x the decode)")
         print(f"4K chart JPEG: Pillow open+decode+RGB {t_pj * 1e3:.0f} ms, scan {t_sj * 1e3:.0f} ms; "
               f"run counter {t_u8 * 1e3:.0f} ms (uint8), the int16 cut alone {t_i16 * 1e3:.0f} ms")
         print(f"ratio JPEG scan / Pillow decode: {t_sj / t_pj:.2f}x (target <= 2x; the rest after "

@@ -299,3 +299,21 @@ def test_run_counter_matches_the_int16_reference():
                    np.array([0, 0x01010101, 0x0A0A0A0A, 0xFF000000, 0, 0, 0], dtype=np.uint32)):
         for got, want in zip(count_runs(values, 3, 6), reference(values, 3, 6)):
             np.testing.assert_array_equal(got, want)
+
+
+def test_jpeg_ycbcr_converted_as_the_decoder_does(tmp_path):
+    """The thin-mark rebuild decodes JPEGs as YCbCr and converts the distinct values
+    itself; the result must be the decoder's own RGB (libjpeg via Pillow, external),
+    pixel for pixel, so that nothing else in a JPEG reads differently."""
+    from palettecheck.read.raster import _jpeg_ycc_to_rgb
+
+    rng = np.random.default_rng(5)
+    img = np.repeat(np.repeat(rng.integers(0, 256, (40, 60, 3), dtype=np.uint8), 2, 0), 2, 1)
+    Image.fromarray(img).save(tmp_path / "n.jpg", quality=80)
+    with Image.open(tmp_path / "n.jpg") as im:
+        rgb = np.asarray(im.convert("RGB"))
+    with Image.open(tmp_path / "n.jpg") as im:
+        im.draft("YCbCr", im.size)
+        assert im.mode == "YCbCr"
+        ycc = np.asarray(im)
+    assert np.array_equal(_jpeg_ycc_to_rgb(ycc.reshape(-1, 3)), rgb.reshape(-1, 3))

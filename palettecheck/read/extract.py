@@ -132,6 +132,9 @@ class ColorCounts:
     #: the mark each entry of ``rgba`` was painted as (vector files): ``(kinds, sizes)``,
     #: a kind ("line", "point", "area", "text"; "" unknown) and a size in CSS px per entry
     painted_marks: tuple | None = None
+    #: a JPEG's sampled rows and columns as decoded (packed Y, Cb, Cr): ``(rows, columns)``,
+    #: each a 2-D uint32 array, for rebuilding thin marks' chroma (:mod:`.chroma`)
+    ycc_lines: tuple | None = None
 
 
 @dataclass(frozen=True)
@@ -493,6 +496,10 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     # compression noise is strongest where most pixels are: around the background
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
     noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
+    if counts.ycc_lines is not None:  # a JPEG's thin marks, their chroma rebuilt from the scanlines
+        rgb, w, flat, jab, chroma_all, tint_of, noise = _thin_jpeg_marks(
+            counts, rgb, w, flat, jab, chroma_all, tint_of, noise, bg_i, panel_i, total, viewing)
+        flat_drawn = np.append(flat_drawn, np.zeros(len(rgb) - len(flat_drawn)))  # the marks hold no pixel
     group, seeds = _group(jab, w, merge_radius, bg_i, seed_min=max(total * 2e-5, 1e-12),
                           first_radius=merge_radius * (2.0 if counts.lossy else 1.0), to_first=noise,
                           max_seeds=None if counts.lossy else MAX_SEED_CANDIDATES)
@@ -572,6 +579,72 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
                    g_rgb[panel_g] if panel_g is not None else g_rgb[0])
     return ChartColors(source, background, bg_from, "categorical", colors, neutrals, None,
                        counts.size, tuple(notes), panels, grey_data, (), marks)
+
+
+#: A thin mark's chroma ratio within this of the segment between two stronger marks'
+#: is where they cross (practical choice, no source; the ratios' grouping radius is 0.05).
+MIX_RATIO_RADIUS = 0.04
+
+
+def _between(r: np.ndarray, others: np.ndarray, radius: float) -> bool:
+    """Does ``r`` lie within ``radius`` of a segment between two of ``others`` (its ends left out)?"""
+    if len(others) < 2:
+        return False
+    p, q = others[:, None, :], others[None, :, :]
+    d = q - p
+    t = ((r - p) * d).sum(-1) / np.maximum((d * d).sum(-1), 1e-12)
+    inner = (t > 0.1) & (t < 0.9)
+    dist = np.sqrt((((p + np.clip(t, 0, 1)[..., None] * d) - r) ** 2).sum(-1))
+    return bool((inner & (dist <= radius)).any())
+
+
+def _thin_jpeg_marks(counts, rgb, w, flat, jab, chroma, tint_of, noise, bg_i, panel_i, total, viewing):
+    """Append the thin marks rebuilt from a JPEG's YCbCr scanlines (:mod:`.chroma`) and
+    move their washed-out tints to them, over the page and the plot panel."""
+    from .chroma import MAX_CORE, MIN_PIXELS, MIN_SUPPORT, explain_thin, rgb_to_ycc, thin_marks, ycc_to_rgb
+
+    rows, cols = counts.ycc_lines
+    for base in [bg_i] + ([panel_i] if panel_i is not None else []):
+        ycc, support, core = thin_marks(rows, cols, rgb_to_ycc(rgb[base]))
+        if not len(ycc):
+            continue
+        found = np.clip(ycc_to_rgb(ycc), 0.0, 255.0)
+        fj = to_ucs(found, viewing)
+        vivid = np.hypot(fj[:, 1], fj[:, 2]) >= NEUTRAL_CHROMA
+        if not vivid.any():
+            continue
+        strong = (support >= MIN_SUPPORT * support[vivid].max()) & (support >= MIN_PIXELS)
+        # a mark that also fills an area of its colour (a bar, a wedge, a disc) is read from that
+        solid = np.flatnonzero((flat >= 0.5 * w) & (w >= DEFAULT_MIN_SHARE * total))
+        if len(solid):
+            to_solid = np.sqrt(((fj[:, None, :] - jab[solid][None]) ** 2).sum(-1)).min(axis=1)
+            strong &= to_solid > 2.0 * DEFAULT_MERGE_RADIUS
+        # a line wide enough to hold its own colour (its crossings' luma cores longer than a
+        # few pixels) is read from that, as in any image
+        strong &= core <= MAX_CORE
+        # where two marks cross, a crossing's chroma ratio is a mix of theirs: a mark whose
+        # ratio lies between two stronger ones' is such a meeting, not a mark
+        b = rgb_to_ycc(rgb[base])
+        ratio = (ycc[:, 1:] - b[1:]) / np.where(np.abs(b[0] - ycc[:, :1]) > 1.0, b[0] - ycc[:, :1], 1.0)
+        keep = []  # vivid marks, strongest first, none within twice the merge radius of a stronger one
+        for i in np.argsort(-support, kind="stable"):
+            if vivid[i] and strong[i] and all(
+                    np.sqrt(((fj[i] - fj[k]) ** 2).sum()) > 2.0 * DEFAULT_MERGE_RADIUS for k in keep) \
+                    and not _between(ratio[i], ratio[keep], MIX_RATIO_RADIUS):
+                keep.append(int(i))
+        if not keep:
+            continue
+        found, fj = found[keep], fj[keep]
+        near = np.sqrt(((rgb - rgb[base]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True]
+        n = len(rgb)
+        w, flat, t = explain_thin(rgb, w, flat, base, found, BLEND_SHARE_RATIO * 0.01 * total, near,
+                                  chroma < NEUTRAL_CHROMA)
+        rgb, jab = np.vstack([rgb, found]), np.vstack([jab, fj])
+        chroma = np.append(chroma, np.hypot(fj[:, 1], fj[:, 2]))
+        tint_of = np.where(t >= 0, t, np.append(tint_of, np.full(len(found), -1)))
+        noise = np.append(noise, np.zeros(len(found), dtype=bool))
+        noise[:n] &= t[:n] < 0
+    return rgb, w, flat, jab, chroma, tint_of, noise
 
 
 def _painted_marks(painted, weights, entry_group, g_rgb, data_groups) -> tuple:

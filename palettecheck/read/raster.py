@@ -45,6 +45,10 @@ FLAT_RUN = 3
 #: In lossy files, neighbours differing by at most this much per channel (0-255)
 #: count as equal when looking for flat fill (compression noise).
 LOSSY_STEP = 6
+#: Decode JPEGs as YCbCr and rebuild thin marks' chroma (read/chroma.py); the
+#: distinct values are converted to RGB bit-exact as the decoder would, so every other
+#: colour reads as from an RGB decode. False reads JPEGs as before (for comparisons).
+REBUILD_THIN_JPEG = True
 #: Pixels per block of rows read at once.
 _BLOCK = 1 << 20
 
@@ -182,14 +186,32 @@ def _channels(values: np.ndarray, mode: str) -> np.ndarray:
     return out
 
 
-def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list) -> np.ndarray:
-    """``(n, 4)`` RGBA (sRGB 0-255) from distinct RGBA/RGBX/CMYK values."""
+def _jpeg_ycc_to_rgb(ycc: np.ndarray) -> np.ndarray:
+    """A JPEG decoder's own YCbCr -> RGB: JFIF's full-range BT.601 inverse (ITU-T T.871)
+    in 16-bit fixed point rounded as the IJG library's colour converter does (M: its
+    jdcolor.c tables; checked bit-exact against Pillow's RGB decode in the tests)."""
+    bits, half = 16, 1 << 15
+    def fix(v):
+        return int(v * (1 << bits) + 0.5)
+    y = ycc[:, 0].astype(np.int64)
+    cb, cr = ycc[:, 1].astype(np.int64) - 128, ycc[:, 2].astype(np.int64) - 128
+    r = y + ((fix(1.40200) * cr + half) >> bits)
+    g = y + ((-fix(0.34414) * cb - fix(0.71414) * cr + half) >> bits)
+    b = y + ((fix(1.77200) * cb + half) >> bits)
+    return np.clip(np.stack([r, g, b], 1), 0, 255).astype(np.uint8)
+
+
+def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list, ycc: bool = False) -> np.ndarray:
+    """``(n, 4)`` RGBA (sRGB 0-255) from distinct RGBA/RGBX/CMYK values (``ycc``: the
+    RGBX values hold a JPEG decoder's Y, Cb, Cr, converted here by Pillow)."""
     from PIL import Image
 
     alpha = quad[:, 3].copy() if mode == "RGBA" else np.full(len(quad), 255.0)
     if len(quad) == 0:
         return np.zeros((0, 4))
     raw = np.ascontiguousarray(np.rint(quad).astype(np.uint8))
+    if ycc:  # as the decoder would have converted them, so the colours are those of an RGB decode
+        raw[:, :3] = _jpeg_ycc_to_rgb(raw[:, :3])
     strip = Image.frombytes(mode, (len(quad), 1), raw.tobytes())
     strip = strip if mode == "CMYK" else strip.convert("RGB")
     converted = apply_icc(strip, icc, notes) if icc else None
@@ -319,6 +341,12 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     if getattr(im, "is_animated", False):  # n_frames would walk every frame of a GIF
         notes.append("animated image: only the first frame is read")
     icc = im.info.get("icc_profile") or None
+    # a JPEG's YCbCr as decoded, before the RGB conversion clips it: thin marks' chroma
+    # is rebuilt from it (read/chroma.py); distinct values are converted afterwards
+    ycc = REBUILD_THIN_JPEG and lossy and im.format == "JPEG" and im.mode == "RGB" \
+        and im.info.get("adobe_transform", 1) != 0 \
+        and getattr(im, "draft", None) is not None and im.draft("YCbCr", im.size) is not None \
+        and im.mode == "YCbCr"
     im.load()
     if im.mode in ("I;16", "I;16L", "I;16B", "I;16N", "I", "F"):
         a = np.asarray(im, dtype=float)
@@ -330,18 +358,20 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
         icc = None
     if im.mode in ("P", "PA", "LA", "La", "RGBa"):
         im = im.convert("RGBA")
-    elif im.mode in ("L", "1") or im.mode not in ("RGB", *_DIRECT):
+    elif im.mode in ("L", "1") or im.mode not in ("RGB", "YCbCr", *_DIRECT):
         im = im.convert("RGB")
-    mode = "RGBX" if im.mode == "RGB" else im.mode
+    mode = "RGBX" if im.mode in ("RGB", "YCbCr") else im.mode
     vals, cnts, flat, bvals, bcnts, (rows, cols, step) = _count_uint32(im, mode, lossy)
     size = im.size
     common = int(np.argmax(cnts)) if len(cnts) else None
-    lines = (scan_runs(np.concatenate(rows), vals, common), scan_runs(np.concatenate(cols).T, vals, common), step) \
-        if rows else None
-    rgba = _to_srgb(_channels(vals, mode), mode, icc, notes)
-    border = _to_srgb(_channels(bvals, mode), mode, icc, [])
+    row_px, col_px = (np.concatenate(rows), np.ascontiguousarray(np.concatenate(cols).T)) if rows else (None, None)
+    lines = (scan_runs(row_px, vals, common), scan_runs(col_px, vals, common), step) if rows else None
+    rgba = _to_srgb(_channels(vals, mode), mode, icc, notes, ycc)
+    border = _to_srgb(_channels(bvals, mode), mode, icc, [], ycc)
+    ycc_lines = (row_px, col_px) if ycc and rows else None
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),
-                       exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines)
+                       exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines,
+                       ycc_lines=ycc_lines)
 
 
 def read_counts(path, max_pixels: int = MAX_PIXELS) -> ColorCounts:
