@@ -19,10 +19,11 @@ from palettecheck.read import read_source
 from palettecheck.repair import RepairError, repair
 
 #: Random flawed palettes repaired in every run; the full study (slow) takes 200.
-CASES = 60
+CASES = 30
 STUDY = 200
-#: Measured 2026-12 on seed 2026: 42 of the first 60 fixed, 133 of the 200.
-FIXED_60, FIXED_200 = 40, 125
+#: Measured 2026-12 on seed 2026 under the default (Stone) rule: 23 of the first 30
+#: fixed, 42 of the first 60; floors, so that a weaker repair shows.
+FIXED_30, FIXED_200 = 22, 125
 VISIONS = Settings().visions
 
 
@@ -58,10 +59,10 @@ def outcomes():
 def test_every_solvable_random_palette_is_fixed(outcomes):
     unsolved = [(p.hexes, f.explanation) for p, f, solvable in outcomes if not f.passed and solvable]
     fixed = sum(f.passed for _, f, _ in outcomes)
-    # Measured 2026-12 on seed 2026: 42 of the first 60 fixed; each of the others
+    # Measured 2026-12 on seed 2026: 23 of the first 30 fixed; each of the others
     # has a locked colour that fails contrast or conflicts, which the generator cannot fix either.
     assert unsolved == []
-    assert fixed >= FIXED_60
+    assert fixed >= FIXED_30
 
 
 @pytest.mark.slow
@@ -86,12 +87,12 @@ def test_locked_colours_are_bit_identical(outcomes):
 def test_movement_beats_the_naive_baseline(outcomes):
     settings = Settings()
     ours, naive = [], []
-    for pal, fix, _ in outcomes[:60]:
+    for pal, fix, _ in outcomes:
         if fix.passed and fix.moves:
             ours.append(fix.total_movement)
             naive.append(naive_movement(pal, settings))
-    # Measured 2026-12 on seed 2026 (41 repaired among the first 60 cases): median
-    # total movement 51.0 ΔE' against the baseline's 204.4.
+    # Measured 2026-12 on seed 2026 (21 repaired among the first 30 cases): median
+    # total movement 49.6 ΔE' against the baseline's 195.4.
     assert np.median(ours) < 0.5 * np.median(naive)
 
 
