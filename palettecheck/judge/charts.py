@@ -35,7 +35,7 @@ from ..terms import MARKS
 from .result import CheckResult, check_palette
 
 __all__ = ["ImageCheck", "ScanReport", "check_image", "prepare", "chart_mark", "MARK_MIN_SHARE", "require_colors",
-           "scan", "check_figure", "check_sources", "default_jobs", "available_cores", "capped_jobs", "iter_checks",
+           "scan", "check_figure", "default_jobs", "available_cores", "capped_jobs", "iter_checks",
            "Blob", "StoredCheck"]
 
 @dataclass
@@ -164,21 +164,6 @@ def require_colors(palette: ChartPalette) -> None:
     if skipped:
         why += "; " + "; ".join(skipped)
     raise ReadError(f"{reading.source}: no data colours could be read: {why}")
-
-
-def check_sources(sources, settings: Settings | None = None, *, kind: str | None = None,
-                  backgrounds=(), mark: str | None = None, page: int = 1) -> CheckResult:
-    """Read SOURCEs (colours, palette files, chart images) into one palette and check it.
-
-    A chart image brings its own background and, for a continuous scale, its kind:
-    see :func:`prepare`. ``kind`` and ``backgrounds`` are the ones the user gave
-    (None and empty when not given); ``settings`` already holds them.
-    """
-    settings = settings or Settings()
-    # a chart is measured under the conditions of the page it is found on, as the check does
-    palette = read_sources(sources, background_rgb(settings.backgrounds[0]), page, viewing=settings.viewing_on)
-    palette, settings = prepare(palette, settings, kind, backgrounds, mark)
-    return check_palette(palette, settings)
 
 
 def check_image(reading: ChartColors, settings=None, *, kind: str | None = None, backgrounds=(),

@@ -17,7 +17,17 @@ from ..color import WHITE, Palette, looks_like_color, make_palette
 from ..errors import ColorError, ReadError
 from .files import MAX_FILE_BYTES as MAX_FILE_BYTES
 from .files import shown
-from .images import IMAGE_EXTENSIONS, find_images, read_image, read_image_bytes
+from ..terms import IMAGE_EXTENSIONS
+
+#: names served from .images on first use, so that reading a palette file does not
+#: load the chart reader (``palettecheck check palette.json`` starts faster)
+_LAZY = {"find_images", "read_image", "read_image_bytes"}
+
+
+def __getattr__(name):
+    if name in _LAZY:
+        return getattr(import_module(".images", __name__), name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 __all__ = ["ReadError", "read_source", "read_sources", "READERS", "MAX_FILE_BYTES", "IMAGE_EXTENSIONS",
            "read_image", "read_image_bytes", "find_images"]
