@@ -167,9 +167,10 @@ def _count_uint32(im, mode: str, lossy: bool = False, band: int = 0):
     parts, border = [], []
     step = scan_step(w, h)
     rows, cols = [], []  # every step-th row and column: the marks' run lengths (read/marks.py)
-    row_band, col_band = [], []
+    row_band = []
     offsets = np.arange(-band, band + 1)
-    col_at = np.clip(np.arange(0, w, step)[:, None] + offsets[None, :], 0, w - 1)
+    ncols = len(range(0, w, step))
+    col_band = np.empty((len(offsets), h, ncols), dtype=np.uint32) if band else None
     for y0, block in _uint32_blocks(im, mode):
         n = block.shape[0]
         rows.append(block[(-y0) % step::step].copy())
@@ -177,7 +178,13 @@ def _count_uint32(im, mode: str, lossy: bool = False, band: int = 0):
         if band:
             at = np.clip(np.arange((-y0) % step, n, step)[:, None] + offsets[None, :], 0, n - 1)
             row_band.append(block[at])
-            col_band.append(block[:, col_at])
+            for i, k in enumerate(offsets):  # column x + k of every sampled x, clipped to the image
+                lo = -(k // step) if k < 0 else 0  # sampled columns whose x + k < 0
+                part = block[:, max(k, 0) + lo * step + min(k, 0)::step][:, :ncols - lo]
+                out = col_band[i, y0:y0 + n]
+                out[:, :lo] = block[:, :1]
+                out[:, lo:lo + part.shape[1]] = part
+                out[:, lo + part.shape[1]:] = block[:, -1:]
         parts.append(count_runs(block.ravel(), FLAT_RUN, LOSSY_STEP if lossy else 0))
         if y0 < width or y0 + n > h - width:
             border.append(count_runs(np.sort(block[_border_mask(h, w, y0, n, width)])))
@@ -186,8 +193,8 @@ def _count_uint32(im, mode: str, lossy: bool = False, band: int = 0):
                                                               block[:, w - width:].ravel()]))))
     vals, cnts, flat = _merge(parts)
     bvals, bcnts, _ = _merge(border)
-    bands = (np.concatenate(row_band), np.ascontiguousarray(np.concatenate(col_band).transpose(1, 2, 0))) \
-        if band and rows else None
+    # the columns' band as a view (lines, 2 band + 1, length), not copied
+    bands = (np.concatenate(row_band), col_band.transpose(2, 0, 1)) if band and rows else None
     return vals, cnts, flat, bvals, bcnts, (rows, cols, step), bands
 
 
@@ -383,7 +390,7 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     lines = (scan_runs(row_px, vals, common), scan_runs(col_px, vals, common), step) if rows else None
     rgba = _to_srgb(_channels(vals, mode), mode, icc, notes, ycc)
     border = _to_srgb(_channels(bvals, mode), mode, icc, [], ycc)
-    ycc_lines = (row_px, col_px, *bands) if ycc and rows else None
+    ycc_lines = (row_px, col_px, *(bands or ())) if ycc and rows else None
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),
                        exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines,
                        ycc_lines=ycc_lines)
