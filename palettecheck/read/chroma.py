@@ -59,9 +59,12 @@ MAX_CORE = 5.0
 DARK_QUANTILE = 0.08
 
 
-def _crossings(lines: np.ndarray, base: np.ndarray):
+def _crossings(lines: np.ndarray, base: np.ndarray, band: np.ndarray | None = None):
     """``(r (n, 2), D, extreme luma)`` of each thin crossing of ``base`` along the rows
-    of ``lines`` (uint32 packed Y, Cb, Cr in bytes 0-2)."""
+    of ``lines`` (uint32 packed Y, Cb, Cr in bytes 0-2). ``band``: the lines on each
+    side of every line, ``(lines, 2 h + 1, length)``; the ratio is then taken from the
+    sums over the band's pixels beside the crossing's, which also hold what 4:2:0
+    coding spread across the line (a dot's or a dash's end's chroma)."""
     if lines.size == 0:
         return np.zeros((0, 2)), np.zeros(0), np.zeros(0), np.zeros(0)
     ch = lines.view(np.uint8).reshape(lines.shape[0], lines.shape[1], 4)
@@ -102,8 +105,27 @@ def _crossings(lines: np.ndarray, base: np.ndarray):
     lo = np.minimum.reduceat(px[:, 0], first).astype(float) + b[0]
     hi = np.maximum.reduceat(px[:, 0], first).astype(float) + b[0]
     ok = np.abs(d) >= MIN_DEFICIT
-    d, s, lo, hi, core = d[ok], s[ok], lo[ok], hi[ok], core[ok]
-    return s / d[:, None], d, np.where(d > 0, lo, hi), core
+    if band is not None:
+        # each side line's window widened by its distance from the line, so that a
+        # slanting mark (up to 45 degrees) stays inside it
+        nb, length = band.shape[1], band.shape[2]
+        off = np.abs(np.arange(nb) - nb // 2)
+        li, x0 = np.divmod(starts, length)
+        a = np.maximum(x0[:, None] - off[None, :], 0)  # (n, nb)
+        z = np.minimum(x0[:, None] + size[:, None] + off[None, :], length)
+        j = np.arange(int((z - a).max()))
+        at = a[..., None] + j  # (n, nb, width)
+        inside = at < z[..., None]
+        vals = band[li[:, None, None], np.arange(nb)[None, :, None], np.minimum(at, length - 1)]
+        bb = vals.view(np.uint8).reshape(*vals.shape, 4)[..., :3].astype(np.int32) - np.asarray(b, dtype=np.int32)
+        bsum = (bb * inside[..., None]).sum((1, 2)).astype(float)
+        d2 = -bsum[:, 0]
+        ok &= (np.abs(d2) >= MIN_DEFICIT) & (np.sign(d2) == np.sign(d))
+        ratio = bsum[:, 1:] / np.where(np.abs(d2) > 0, d2, 1.0)[:, None]
+    else:
+        ratio = s / np.where(np.abs(d) > 0, d, 1.0)[:, None]
+    d, ratio, lo, hi, core = d[ok], ratio[ok], lo[ok], hi[ok], core[ok]
+    return ratio, d, np.where(d > 0, lo, hi), core
 
 
 def _group_quantile(values: np.ndarray, label: np.ndarray, k: int, q: np.ndarray) -> np.ndarray:
@@ -120,11 +142,11 @@ def _group_quantile(values: np.ndarray, label: np.ndarray, k: int, q: np.ndarray
 
 
 def thin_marks(row_lines: np.ndarray, col_lines: np.ndarray, base_ycc: np.ndarray,
-               min_crossings: int = 3):
+               min_crossings: int = 3, bands=None):
     """Colours (YCbCr, ``(k, 3)``) of the thin marks crossing the sampled rows and
     columns over ``base_ycc`` (its Y, Cb, Cr, 0-255), the pixels' worth of coverage
     their crossings carry (their support), and their crossings' median luma core."""
-    parts = [_crossings(lines, base_ycc) for lines in (row_lines, col_lines)]
+    parts = [_crossings(lines, base_ycc, band) for lines, band in zip((row_lines, col_lines), bands or (None, None))]
     r = np.concatenate([p[0] for p in parts])
     d = np.concatenate([p[1] for p in parts])
     ext = np.concatenate([p[2] for p in parts])

@@ -603,9 +603,9 @@ def _thin_jpeg_marks(counts, rgb, w, flat, jab, chroma, tint_of, noise, bg_i, pa
     move their washed-out tints to them, over the page and the plot panel."""
     from .chroma import MAX_CORE, MIN_PIXELS, MIN_SUPPORT, explain_thin, rgb_to_ycc, thin_marks, ycc_to_rgb
 
-    rows, cols = counts.ycc_lines
+    rows, cols, *bands = counts.ycc_lines
     for base in [bg_i] + ([panel_i] if panel_i is not None else []):
-        ycc, support, core = thin_marks(rows, cols, rgb_to_ycc(rgb[base]))
+        ycc, support, core = thin_marks(rows, cols, rgb_to_ycc(rgb[base]), bands=bands or None)
         if not len(ycc):
             continue
         found = np.clip(ycc_to_rgb(ycc), 0.0, 255.0)

@@ -49,6 +49,9 @@ LOSSY_STEP = 6
 #: distinct values are converted to RGB bit-exact as the decoder would, so every other
 #: colour reads as from an RGB decode. False reads JPEGs as before (for comparisons).
 REBUILD_THIN_JPEG = True
+#: ... and keep this many lines on each side of every sampled row and column, so that a
+#: dot's or a dash's chroma, spread across the scanline by 4:2:0 coding, is summed too.
+THIN_BAND = 2
 #: Pixels per block of rows read at once.
 _BLOCK = 1 << 20
 
@@ -154,18 +157,34 @@ def _border_mask(h: int, w: int, y0: int, n: int, width: int) -> np.ndarray:
     return (rows < width) | (rows >= h - width) | (cols < width) | (cols >= w - width)
 
 
-def _count_uint32(im, mode: str, lossy: bool = False):
+def _count_uint32(im, mode: str, lossy: bool = False, band: int = 0):
     """``(values, counts, border values, border counts)`` of the image's pixels
-    packed as 4 bytes (``mode``: RGBA, RGBX or CMYK)."""
+    packed as 4 bytes (``mode``: RGBA, RGBX or CMYK). ``band``: also keep the
+    ``band`` lines on each side of every sampled row and column (clipped to the block
+    and the image), as ``(lines, 2 band + 1, length)`` arrays."""
     w, h = im.size
     width = max(1, min(w, h) // 100)  # border strip: 1 % of the short side
     parts, border = [], []
     step = scan_step(w, h)
     rows, cols = [], []  # every step-th row and column: the marks' run lengths (read/marks.py)
+    row_band = []
+    offsets = np.arange(-band, band + 1)
+    ncols = len(range(0, w, step))
+    col_band = np.empty((len(offsets), h, ncols), dtype=np.uint32) if band else None
     for y0, block in _uint32_blocks(im, mode):
         n = block.shape[0]
         rows.append(block[(-y0) % step::step].copy())
         cols.append(block[:, ::step].copy())
+        if band:
+            at = np.clip(np.arange((-y0) % step, n, step)[:, None] + offsets[None, :], 0, n - 1)
+            row_band.append(block[at])
+            for i, k in enumerate(offsets):  # column x + k of every sampled x, clipped to the image
+                lo = -(k // step) if k < 0 else 0  # sampled columns whose x + k < 0
+                part = block[:, max(k, 0) + lo * step + min(k, 0)::step][:, :ncols - lo]
+                out = col_band[i, y0:y0 + n]
+                out[:, :lo] = block[:, :1]
+                out[:, lo:lo + part.shape[1]] = part
+                out[:, lo + part.shape[1]:] = block[:, -1:]
         parts.append(count_runs(block.ravel(), FLAT_RUN, LOSSY_STEP if lossy else 0))
         if y0 < width or y0 + n > h - width:
             border.append(count_runs(np.sort(block[_border_mask(h, w, y0, n, width)])))
@@ -174,7 +193,9 @@ def _count_uint32(im, mode: str, lossy: bool = False):
                                                               block[:, w - width:].ravel()]))))
     vals, cnts, flat = _merge(parts)
     bvals, bcnts, _ = _merge(border)
-    return vals, cnts, flat, bvals, bcnts, (rows, cols, step)
+    # the columns' band as a view (lines, 2 band + 1, length), not copied
+    bands = (np.concatenate(row_band), col_band.transpose(2, 0, 1)) if band and rows else None
+    return vals, cnts, flat, bvals, bcnts, (rows, cols, step), bands
 
 
 def _channels(values: np.ndarray, mode: str) -> np.ndarray:
@@ -361,14 +382,15 @@ def counts_from_image(im, lossy: bool = False, notes=()) -> ColorCounts:
     elif im.mode in ("L", "1") or im.mode not in ("RGB", "YCbCr", *_DIRECT):
         im = im.convert("RGB")
     mode = "RGBX" if im.mode in ("RGB", "YCbCr") else im.mode
-    vals, cnts, flat, bvals, bcnts, (rows, cols, step) = _count_uint32(im, mode, lossy)
+    vals, cnts, flat, bvals, bcnts, (rows, cols, step), bands = _count_uint32(im, mode, lossy,
+                                                                              THIN_BAND if ycc else 0)
     size = im.size
     common = int(np.argmax(cnts)) if len(cnts) else None
     row_px, col_px = (np.concatenate(rows), np.ascontiguousarray(np.concatenate(cols).T)) if rows else (None, None)
     lines = (scan_runs(row_px, vals, common), scan_runs(col_px, vals, common), step) if rows else None
     rgba = _to_srgb(_channels(vals, mode), mode, icc, notes, ycc)
     border = _to_srgb(_channels(bvals, mode), mode, icc, [], ycc)
-    ycc_lines = (row_px, col_px) if ycc and rows else None
+    ycc_lines = (row_px, col_px, *(bands or ())) if ycc and rows else None
     return ColorCounts(rgba, cnts.astype(float), border, bcnts.astype(float), flat=flat.astype(float),
                        exact=False, lossy=lossy, size=size, notes=tuple(notes), scanlines=lines,
                        ycc_lines=ycc_lines)
