@@ -120,7 +120,9 @@ def _chains(lab, pix, start, row, across: np.ndarray) -> np.ndarray:
     ``DOT_CHAIN`` crossings, else its own length."""
     if len(lab) == 0:
         return pix
-    order = np.lexsort((start, lab))  # by label, then along the lines
+    # by label, then along the lines: one key (every crossing starts somewhere else,
+    # so the keys are distinct and any sort of them gives lexsort's order)
+    order = np.argsort((lab.astype(np.int64) << 40) | start.astype(np.int64))
     lab_s, pix_s, start_s, row_s = lab[order], pix[order], start[order], row[order]
     gap = start_s[1:] - (start_s[:-1] + pix_s[:-1])
     linked = (lab_s[1:] == lab_s[:-1]) & (row_s[1:] == row_s[:-1]) & \
@@ -197,7 +199,9 @@ def _quantile(x: np.ndarray, q: float) -> float:
 
 def _by_label(lab, pix, cov, n_labels: int):
     """Crossings split by label (one sort, no per-label scan of every crossing)."""
-    order = np.argsort(lab, kind="stable")
+    # a stable sort of small labels: as int16 numpy sorts them by radix, in one pass
+    key = lab.astype(np.int16) if n_labels < np.iinfo(np.int16).max else lab
+    order = np.argsort(key, kind="stable")
     lab, pix, cov = lab[order], pix[order], cov[order]
     cuts = np.searchsorted(lab, np.arange(n_labels + 1))
     return [(pix[cuts[k]:cuts[k + 1]], cov[cuts[k]:cuts[k + 1]]) for k in range(n_labels)]
