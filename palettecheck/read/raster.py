@@ -226,6 +226,8 @@ def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list, ycc: b
     if len(quad) == 0:
         return np.zeros((0, 4))
     raw = np.ascontiguousarray(np.rint(quad).astype(np.uint8))
+    if not ycc and not icc and mode in ("RGBA", "RGBX"):  # Pillow's RGBA/RGBX -> RGB keeps the three channels as they are
+        return np.concatenate([raw[:, :3].astype(float), alpha[:, None]], axis=1)
     if ycc:  # as the decoder would have converted them, so the colours are those of an RGB decode
         raw[:, :3] = _jpeg_ycc_to_rgb(raw[:, :3])
     strip = Image.frombytes(mode, (len(quad), 1), raw.tobytes())
