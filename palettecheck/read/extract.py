@@ -272,20 +272,22 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     Returns each colour's group (-1: none near) and the seed of each group."""
     first_radius = radius if first_radius is None else first_radius
     to_first = np.zeros(len(jab), dtype=bool) if to_first is None else to_first
-    order = np.argsort(-w, kind="stable")
-    order = np.concatenate(([first], order[order != first]))
+    # most frequent first, only the colours frequent enough to open a group (the loop
+    # below stops at the first one under seed_min: the same ones, in the same order)
+    able = np.flatnonzero(w >= seed_min)
+    able = able[able != first]
+    order = np.concatenate(([first], able[np.argsort(-w[able], kind="stable")]))
     seeds = [first]
-    centres = [jab[first]]
+    centres = np.empty((len(order), jab.shape[-1]))
+    centres[0] = jab[first]
     for i in order[1:max_seeds]:
-        if w[i] < seed_min:
-            break
         if to_first[i]:
             continue
-        d = np.sqrt(((np.asarray(centres) - jab[i]) ** 2).sum(-1))
+        d = np.sqrt(sq_norm(centres[:len(seeds)] - jab[i]))
         if d.min() > radius and d[0] > first_radius:
+            centres[len(seeds)] = jab[i]
             seeds.append(int(i))
-            centres.append(jab[i])
-    centres = np.asarray(centres)
+    centres = centres[:len(seeds)]
     group = np.full(len(jab), -1)
     live = np.flatnonzero(w > 0)  # colours emptied (tints moved to their marks) join no group
     near, best = _nearest(jab[live], centres)

@@ -100,16 +100,24 @@ def _crossings(runs, label: np.ndarray, alpha: np.ndarray):
         z = np.zeros(0, dtype=int)
         return z, np.zeros(0), np.zeros(0), z, z
     lab = label[idx]
-    cov = alpha[idx] * length
-    new = np.ones(len(idx), dtype=bool)
-    new[1:] = (lab[1:] != lab[:-1]) | (row[1:] != row[:-1])
+    # only the runs of data colours (crossings of the rest are dropped): a crossing ends
+    # where the label or the line changes or a run of no data colour comes between
+    pos = np.flatnonzero(lab >= 0)
+    lab, run_len, run_row = lab[pos], length[pos], row[pos]
+    cov = alpha[idx[pos]] * run_len
+    new = np.ones(len(pos), dtype=bool)
+    new[1:] = (lab[1:] != lab[:-1]) | (run_row[1:] != run_row[:-1]) | (pos[1:] != pos[:-1] + 1)
     b = np.flatnonzero(new)
+    if len(b) == 0:
+        z = np.zeros(0, dtype=int)
+        return z, np.zeros(0), np.zeros(0), z, z
     lab_j = lab[b]
-    pix = np.add.reduceat(length, b).astype(float)
+    pix = np.add.reduceat(run_len, b).astype(float)
     cov_j = np.add.reduceat(cov, b)
-    start = (np.cumsum(length, dtype=np.int64) - length)[b]
-    keep = (lab_j >= 0) & (cov_j >= MIN_CROSSING)
-    return lab_j[keep], pix[keep], cov_j[keep], start[keep], row[b][keep]
+    at = pos[b]
+    start = np.cumsum(length, dtype=np.int64)[at] - length[at]
+    keep = cov_j >= MIN_CROSSING
+    return lab_j[keep], pix[keep], cov_j[keep], start[keep], run_row[b][keep]
 
 
 def _chains(lab, pix, start, row, across: np.ndarray) -> np.ndarray:
