@@ -318,9 +318,8 @@ def _nearest(x: np.ndarray, centres: np.ndarray, chunk: int = 256):
         # picks), the squared distances as the whole matrix would hold them
         for m in range(len(c)):
             dj = xx + cc[m] - 2.0 * prod[:, m]
-            better = dj < best
-            best[better] = dj[better]
-            group[better] = k + m
+            np.copyto(group, k + m, where=dj < best)
+            np.minimum(best, dj, out=best)  # = dj where it is smaller (equal values are equal)
     return group, np.sqrt(sq_norm(x - centres[group]))
 
 
