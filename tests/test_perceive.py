@@ -136,6 +136,23 @@ def test_to_ucs_against_colour_random():
     np.testing.assert_allclose(ours, same_xyz, atol=ref.TOL_CAM_SAME_XYZ)
 
 
+@pytest.mark.parametrize("viewing", [SRGB_VIEWING, Viewing(L_A=4.0, Y_b=10.0, surround="dim")])
+def test_to_ucs_is_colorspacious_bit_for_bit(viewing):
+    """V: colorspacious's own cspace_convert sRGB255 -> CAM02-UCS (the library general-purpose
+    conversion to_ucs shortens): equal to the last bit on 8-bit code values (the decode table),
+    fractional and out-of-range values, and every grey and primary ramp."""
+    rng = np.random.default_rng(7)
+    ramp = np.arange(256.0)[:, None]
+    zero = np.zeros_like(ramp)
+    rgb = np.vstack([rng.integers(0, 256, (20000, 3)).astype(float), rng.uniform(0, 255, (2000, 3)),
+                     rng.uniform(-3, 258, (200, 3)), np.hstack([ramp, ramp, ramp]),
+                     np.hstack([ramp, zero, zero]), np.hstack([zero, ramp, zero]), np.hstack([zero, zero, ramp])])
+    want = cspace_convert(rgb, "sRGB255", P._ucs_space(viewing))
+    assert np.array_equal(P.to_ucs(rgb, viewing), want)
+    cube = rgb[:35].reshape(7, 5, 3)
+    assert np.array_equal(P.to_ucs(cube, viewing), cspace_convert(cube, "sRGB255", P._ucs_space(viewing)))
+
+
 def test_delta_e_reference_pair():
     """C: Luo, Cui & Li 2006 and the colorspacious/colour/coloraide CAM02-UCS code pair, colorspacious figure to four decimals; the others within 0.02."""
     a, b = (P.to_ucs(c) for c in ref.DELTA_E_PAIR)

@@ -47,7 +47,7 @@ import numpy as np
 from ..color import Palette, Swatch, to_hex
 from ..config import SRGB_VIEWING, Settings
 from ..perceive.ucs import to_ucs
-from .blends import explain_tints
+from .blends import dot3, explain_tints, sq_norm
 from .continuous import SCALE_MIN_COLORS, find_continuous, sample_path, segment_distance, step_colors
 from .marks import measure_marks
 
@@ -272,25 +272,27 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     Returns each colour's group (-1: none near) and the seed of each group."""
     first_radius = radius if first_radius is None else first_radius
     to_first = np.zeros(len(jab), dtype=bool) if to_first is None else to_first
-    order = np.argsort(-w, kind="stable")
-    order = np.concatenate(([first], order[order != first]))
+    # most frequent first, only the colours frequent enough to open a group (the loop
+    # below stops at the first one under seed_min: the same ones, in the same order)
+    able = np.flatnonzero(w >= seed_min)
+    able = able[able != first]
+    order = np.concatenate(([first], able[np.argsort(-w[able], kind="stable")]))
     seeds = [first]
-    centres = [jab[first]]
+    centres = np.empty((len(order), jab.shape[-1]))
+    centres[0] = jab[first]
     for i in order[1:max_seeds]:
-        if w[i] < seed_min:
-            break
         if to_first[i]:
             continue
-        d = np.sqrt(((np.asarray(centres) - jab[i]) ** 2).sum(-1))
+        d = np.sqrt(sq_norm(centres[:len(seeds)] - jab[i]))
         if d.min() > radius and d[0] > first_radius:
+            centres[len(seeds)] = jab[i]
             seeds.append(int(i))
-            centres.append(jab[i])
-    centres = np.asarray(centres)
+    centres = centres[:len(seeds)]
     group = np.full(len(jab), -1)
     live = np.flatnonzero(w > 0)  # colours emptied (tints moved to their marks) join no group
     near, best = _nearest(jab[live], centres)
     group[live[best <= radius]] = near[best <= radius]
-    near_first = np.sqrt(((jab - centres[0]) ** 2).sum(-1)) <= first_radius
+    near_first = np.sqrt(sq_norm(jab - centres[0])) <= first_radius
     group[near_first & (group == -1)] = 0
     group[to_first] = 0
     group[seeds] = np.arange(len(seeds))
@@ -304,19 +306,21 @@ def _nearest(x: np.ndarray, centres: np.ndarray, chunk: int = 256):
     either way), then the distance to the centre picked computed exactly."""
     if len(centres) == 0 or len(x) == 0:
         return np.full(len(x), -1), np.full(len(x), np.inf)
-    xx = (x * x).sum(-1)
+    xx = sq_norm(x)
     x32 = x.astype(np.float32)  # the products in single precision; the distance kept exactly
     best = np.full(len(x), np.inf)
     group = np.zeros(len(x), dtype=int)
     for k in range(0, len(centres), chunk):
         c = centres[k : k + chunk]
-        d2 = xx[:, None] + (c * c).sum(-1)[None, :] - 2.0 * (x32 @ c.astype(np.float32).T)
-        j = np.argmin(d2, axis=1)
-        dj = d2[np.arange(len(x)), j]
-        better = dj < best
-        best[better] = dj[better]
-        group[better] = j[better] + k
-    return group, np.sqrt(((x - centres[group]) ** 2).sum(-1))
+        prod = x32 @ c.astype(np.float32).T
+        cc = sq_norm(c)
+        # the nearest centre of the chunk column by column (the first of equals, as argmin
+        # picks), the squared distances as the whole matrix would hold them
+        for m in range(len(c)):
+            dj = xx + cc[m] - 2.0 * prod[:, m]
+            np.copyto(group, k + m, where=dj < best)
+            np.minimum(best, dj, out=best)  # = dj where it is smaller (equal values are equal)
+    return group, np.sqrt(sq_norm(x - centres[group]))
 
 
 #: JPEG's full-range BT.601 RGB -> YCbCr (ITU-T T.871), offsets dropped.
@@ -468,7 +472,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     notes = list(counts.notes)
     flat_in = counts.weights if counts.flat is None else counts.flat
     rgb, w, flat, inv = _composite(counts.rgba, bg_rgb, counts.weights, flat_in, inverse=True)
-    gap = ((rgb - bg_rgb) ** 2).sum(-1) if len(rgb) else np.zeros(0)
+    gap = sq_norm(rgb - bg_rgb) if len(rgb) else np.zeros(0)
     if not len(gap) or gap.min() > 0.25:  # a page the image never shows (no SVG backdrop)
         rgb, w, flat = np.vstack([rgb, bg_rgb]), np.append(w, 0.0), np.append(flat, 0.0)
         gap = np.append(gap, 0.0)
@@ -495,7 +499,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
             tint_of = np.where(t >= 0, t, tint_of)
     # compression noise is strongest where most pixels are: around the background
     # (in dark areas a few code values of noise are many ΔE', so also count sRGB distance)
-    noise = np.sqrt(((rgb - rgb[bg_i]) ** 2).sum(-1)) <= BLEND_TOLERANCE[True] if counts.lossy else None
+    noise = np.sqrt(sq_norm(rgb - rgb[bg_i])) <= BLEND_TOLERANCE[True] if counts.lossy else None
     if counts.ycc_lines is not None:  # a JPEG's thin marks, their chroma rebuilt from the scanlines
         rgb, w, flat, jab, chroma_all, tint_of, noise = _thin_jpeg_marks(
             counts, rgb, w, flat, jab, chroma_all, tint_of, noise, bg_i, panel_i, total, viewing)
@@ -682,8 +686,8 @@ def _marks(counts: ColorCounts, inv, rgb, group, tint_of, g_rgb, data_groups, ba
     alpha = np.ones(len(rgb))
     has = label >= 0
     top = g_rgb[np.asarray(data_groups)][np.maximum(label, 0)] - base
-    dd = np.maximum((top * top).sum(-1), 1e-9)
-    alpha[has] = np.clip(((rgb[has] - base) * top[has]).sum(-1) / dd[has], 0.0, 1.0)
+    dd = np.maximum(sq_norm(top), 1e-9)
+    alpha[has] = np.clip(dot3(rgb[has] - base, top[has]) / dd[has], 0.0, 1.0)
     found = measure_marks(counts.scanlines, label[inv], alpha[inv], len(data_groups), counts.size)
     return tuple((to_hex(g_rgb[g]), *found[k]) for k, g in enumerate(data_groups) if k in found)
 

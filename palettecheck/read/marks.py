@@ -84,7 +84,11 @@ def scan_runs(lines: np.ndarray, values: np.ndarray, common: int | None = None):
     else:  # the page's runs (about half of them) need no search
         idx = np.full(len(v), common)
         other = np.flatnonzero(v != values[common])
-        idx[other] = np.searchsorted(values, v[other])
+        # searched in sorted order (a binary search per key is mostly cache and branch
+        # misses; sorted keys walk the table once), then put back where they came from
+        vo = v[other]
+        order = np.argsort(vo)  # equal keys find the same index: any order of them will do
+        idx[other[order]] = np.searchsorted(values, vo[order])
     return idx.astype(np.int32), (ends - starts).astype(np.int32), row.astype(np.int32)
 
 
@@ -96,16 +100,24 @@ def _crossings(runs, label: np.ndarray, alpha: np.ndarray):
         z = np.zeros(0, dtype=int)
         return z, np.zeros(0), np.zeros(0), z, z
     lab = label[idx]
-    cov = alpha[idx] * length
-    new = np.ones(len(idx), dtype=bool)
-    new[1:] = (lab[1:] != lab[:-1]) | (row[1:] != row[:-1])
+    # only the runs of data colours (crossings of the rest are dropped): a crossing ends
+    # where the label or the line changes or a run of no data colour comes between
+    pos = np.flatnonzero(lab >= 0)
+    lab, run_len, run_row = lab[pos], length[pos], row[pos]
+    cov = alpha[idx[pos]] * run_len
+    new = np.ones(len(pos), dtype=bool)
+    new[1:] = (lab[1:] != lab[:-1]) | (run_row[1:] != run_row[:-1]) | (pos[1:] != pos[:-1] + 1)
     b = np.flatnonzero(new)
+    if len(b) == 0:
+        z = np.zeros(0, dtype=int)
+        return z, np.zeros(0), np.zeros(0), z, z
     lab_j = lab[b]
-    pix = np.add.reduceat(length, b).astype(float)
+    pix = np.add.reduceat(run_len, b).astype(float)
     cov_j = np.add.reduceat(cov, b)
-    start = (np.cumsum(length, dtype=np.int64) - length)[b]
-    keep = (lab_j >= 0) & (cov_j >= MIN_CROSSING)
-    return lab_j[keep], pix[keep], cov_j[keep], start[keep], row[b][keep]
+    at = pos[b]
+    start = np.cumsum(length, dtype=np.int64)[at] - length[at]
+    keep = cov_j >= MIN_CROSSING
+    return lab_j[keep], pix[keep], cov_j[keep], start[keep], run_row[b][keep]
 
 
 def _chains(lab, pix, start, row, across: np.ndarray) -> np.ndarray:
@@ -116,7 +128,9 @@ def _chains(lab, pix, start, row, across: np.ndarray) -> np.ndarray:
     ``DOT_CHAIN`` crossings, else its own length."""
     if len(lab) == 0:
         return pix
-    order = np.lexsort((start, lab))  # by label, then along the lines
+    # by label, then along the lines: one key (every crossing starts somewhere else,
+    # so the keys are distinct and any sort of them gives lexsort's order)
+    order = np.argsort((lab.astype(np.int64) << 40) | start.astype(np.int64))
     lab_s, pix_s, start_s, row_s = lab[order], pix[order], start[order], row[order]
     gap = start_s[1:] - (start_s[:-1] + pix_s[:-1])
     linked = (lab_s[1:] == lab_s[:-1]) & (row_s[1:] == row_s[:-1]) & \
@@ -193,7 +207,9 @@ def _quantile(x: np.ndarray, q: float) -> float:
 
 def _by_label(lab, pix, cov, n_labels: int):
     """Crossings split by label (one sort, no per-label scan of every crossing)."""
-    order = np.argsort(lab, kind="stable")
+    # a stable sort of small labels: as int16 numpy sorts them by radix, in one pass
+    key = lab.astype(np.int16) if n_labels < np.iinfo(np.int16).max else lab
+    order = np.argsort(key, kind="stable")
     lab, pix, cov = lab[order], pix[order], cov[order]
     cuts = np.searchsorted(lab, np.arange(n_labels + 1))
     return [(pix[cuts[k]:cuts[k + 1]], cov[cuts[k]:cuts[k + 1]]) for k in range(n_labels)]

@@ -69,11 +69,12 @@ def _uint32_blocks(im, mode: str):
 
     w, h = im.size
     rows = max(1, min(h, _BLOCK // max(w, 1)))
-    buf, target = None, None
+    whole, buf, target = None, None, None
     for y0 in range(0, h, rows):
         n = min(rows, h - y0)
-        if buf is None or buf.shape[0] != n:
-            buf = np.empty((n, w), dtype=np.uint32)
+        if buf is None or buf.shape[0] != n:  # the last, shorter block reuses the first rows
+            whole = np.empty((rows, w), dtype=np.uint32) if whole is None else whole
+            buf = whole[:n]
             target = Image.frombuffer(mode, (w, n), buf, "raw", mode, 0, 1)
         try:  # the whole image pasted at (0, -y0): Pillow clips it to the block, one copy, no crop
             target.im.paste(im.im, (0, -y0, w, h - y0))
@@ -96,9 +97,13 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
         return values[:0], np.zeros(0), np.zeros(0)
     if values.size >= 1 << 31:
         raise ValueError("block too large")
-    starts = np.flatnonzero(values[1:] != values[:-1]) + 1
-    starts = np.concatenate(([0], starts))
-    lengths = np.diff(np.append(starts, values.size))
+    change = np.empty(values.size, dtype=bool)
+    change[0] = True
+    np.not_equal(values[1:], values[:-1], out=change[1:])
+    starts = np.flatnonzero(change)
+    lengths = np.empty(starts.size, dtype=np.int64)
+    np.subtract(starts[1:], starts[:-1], out=lengths[:-1])
+    lengths[-1] = values.size - starts[-1]
     if not flat_run:
         flag = None
     elif loose:
@@ -113,8 +118,9 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
         flag = qlen[np.searchsorted(qstarts, starts, side="right") - 1] >= flat_run
     else:
         flag = lengths >= flat_run
-    key = values[starts].astype(np.uint64) << np.uint64(32)
-    key |= lengths.astype(np.uint64)
+    key = values[starts].astype(np.uint64)
+    key <<= np.uint64(32)
+    key |= lengths.view(np.uint64)
     if flag is not None:
         key |= flag.astype(np.uint64) << np.uint64(31)
     key.sort()
@@ -123,11 +129,15 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
     first[0] = True
     np.not_equal(vals[1:], vals[:-1], out=first[1:])
     bounds = np.flatnonzero(first)
-    run = (key & np.uint64(0x7FFFFFFF)).astype(np.int64)
-    counts = np.add.reduceat(run, bounds).astype(float)
+    run = key & np.uint64(0xFFFFFFFF)  # the flag and the length
     if flag is None:
+        counts = np.add.reduceat(run.view(np.int64), bounds).astype(float)
         return vals[bounds], counts, counts
-    run[(key & np.uint64(1 << 31)) == 0] = 0
+    flagged = run >= np.uint64(1 << 31)
+    run &= np.uint64(0x7FFFFFFF)
+    run = run.view(np.int64)
+    counts = np.add.reduceat(run, bounds).astype(float)
+    run[~flagged] = 0
     return vals[bounds], counts, np.add.reduceat(run, bounds).astype(float)
 
 
@@ -151,10 +161,20 @@ def _merge(parts):
                                 minlength=len(uniq)) for k in (1, 2)))
 
 
-def _border_mask(h: int, w: int, y0: int, n: int, width: int) -> np.ndarray:
-    rows = np.arange(y0, y0 + n)[:, None]
-    cols = np.arange(w)[None, :]
-    return (rows < width) | (rows >= h - width) | (cols < width) | (cols >= w - width)
+def _border_pixels(block: np.ndarray, h: int, y0: int, width: int) -> np.ndarray:
+    """The pixels of a block of rows (starting at row ``y0``) that lie in the image's
+    border strip, ``width`` pixels wide: whole rows at the top and bottom, the left and
+    right strips between them (slices, no mask over the block; each pixel once)."""
+    n, w = block.shape
+    top = min(max(width - y0, 0), n)
+    bottom = max(min(max(h - width - y0, 0), n), top)
+    parts = [block[:top].ravel(), block[bottom:].ravel()]
+    middle = block[top:bottom]
+    if w <= 2 * width:
+        parts.append(middle.ravel())
+    else:
+        parts += [middle[:, :width].ravel(), middle[:, w - width:].ravel()]
+    return np.concatenate(parts)
 
 
 def _count_uint32(im, mode: str, lossy: bool = False, band: int = 0):
@@ -186,11 +206,7 @@ def _count_uint32(im, mode: str, lossy: bool = False, band: int = 0):
                 out[:, lo:lo + part.shape[1]] = part
                 out[:, lo + part.shape[1]:] = block[:, -1:]
         parts.append(count_runs(block.ravel(), FLAT_RUN, LOSSY_STEP if lossy else 0))
-        if y0 < width or y0 + n > h - width:
-            border.append(count_runs(np.sort(block[_border_mask(h, w, y0, n, width)])))
-        else:
-            border.append(count_runs(np.sort(np.concatenate([block[:, :width].ravel(),
-                                                              block[:, w - width:].ravel()]))))
+        border.append(count_runs(np.sort(_border_pixels(block, h, y0, width))))
     vals, cnts, flat = _merge(parts)
     bvals, bcnts, _ = _merge(border)
     # the columns' band as a view (lines, 2 band + 1, length), not copied
@@ -231,6 +247,8 @@ def _to_srgb(quad: np.ndarray, mode: str, icc: bytes | None, notes: list, ycc: b
     if len(quad) == 0:
         return np.zeros((0, 4))
     raw = np.ascontiguousarray(np.rint(quad).astype(np.uint8))
+    if not ycc and not icc and mode in ("RGBA", "RGBX"):  # Pillow's RGBA/RGBX -> RGB keeps the three channels as they are
+        return np.concatenate([raw[:, :3].astype(float), alpha[:, None]], axis=1)
     if ycc:  # as the decoder would have converted them, so the colours are those of an RGB decode
         raw[:, :3] = _jpeg_ycc_to_rgb(raw[:, :3])
     strip = Image.frombytes(mode, (len(quad), 1), raw.tobytes())
