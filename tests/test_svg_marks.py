@@ -24,11 +24,16 @@ def marks_of(reading) -> dict:
     return {h: (k, z) for h, k, z in reading.marks}
 
 
+def saved_svg(fig, path):
+    """The figure written as SVG by matplotlib and read back: (reading, {hex: (kind, size)})."""
+    fig.savefig(path, format="svg")
+    reading = palettecheck.read_image(path)
+    return reading, marks_of(reading)
+
+
 def test_matplotlib_line_chart_marks_are_lines_of_their_width(tmp_path):
     fig, bg, fg, truth = draw("line", "light", line_px=2.0)  # lw = 2 * 0.72 pt
-    fig.savefig(tmp_path / "c.svg", format="svg")
-    reading = palettecheck.read_image(tmp_path / "c.svg")
-    marks = marks_of(reading)
+    reading, marks = saved_svg(fig, tmp_path / "c.svg")
     assert set(marks) == set(truth)
     for h in truth:
         kind, size = marks[h]
@@ -43,9 +48,7 @@ def test_matplotlib_scatter_marks_are_points_of_their_diameter(tmp_path):
     colours = ["#1b6ca8", "#e07b39", "#3a9d5d"]
     for i, c in enumerate(colours):  # s is the marker's area in pt²: diameter sqrt(s) pt (matplotlib docs, (C))
         ax.scatter(rng.normal(i, 1, 40), rng.normal(0, 1, 40), s=50, color=c, edgecolors="none")
-    fig.savefig(tmp_path / "s.svg", format="svg")
-    reading = palettecheck.read_image(tmp_path / "s.svg")
-    marks = marks_of(reading)
+    reading, marks = saved_svg(fig, tmp_path / "s.svg")
     assert sorted(marks) == sorted(colours)
     for h in colours:
         kind, size = marks[h]
@@ -57,9 +60,7 @@ def test_matplotlib_bars_are_areas(tmp_path):
     fig = Figure(figsize=(5, 4))
     colours = ["#1b6ca8", "#e07b39", "#3a9d5d", "#c8414b"]
     fig.add_subplot().bar(range(4), [3, 5, 4, 6], color=colours, width=0.6)
-    fig.savefig(tmp_path / "b.svg", format="svg")
-    reading = palettecheck.read_image(tmp_path / "b.svg")
-    marks = marks_of(reading)
+    reading, marks = saved_svg(fig, tmp_path / "b.svg")
     assert sorted(marks) == sorted(colours) and {k for k, _ in marks.values()} == {"area"}
     assert check_image(reading).result.settings.mark == "area"
 
