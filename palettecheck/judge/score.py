@@ -58,10 +58,12 @@ class Score:
         return "100 minus these (at most 50), rounded down"
 
     def explain(self) -> list[str]:
+        """The score in words: how it follows from the deductions, then each deduction."""
         if not self.breakdown:
             return ["100: no warning and no error"]
-        return [self.basis + ":", *(f"-{pts:.1f} {check} ({n} finding{'s' if n != 1 else ''})"
-                         for check, pts, n in self.breakdown)]
+        parts = "; ".join(f"-{pts:.1f} {check} ({n} finding{'s' if n != 1 else ''})"
+                          for check, pts, n in self.breakdown)
+        return [f"{self.basis}: {parts}"]
 
 
 def score_findings(findings: list[Finding]) -> Score:
