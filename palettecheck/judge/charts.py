@@ -17,6 +17,7 @@ refused like an unreadable file (:func:`require_colors`, exit code 2).
 from __future__ import annotations
 
 import os
+import signal
 from dataclasses import dataclass, field
 
 from ..color import make_palette
@@ -435,13 +436,14 @@ def _worker_start(parent: int) -> None:
     watchdog thread ends the worker once its parent is gone. Ctrl-C goes to the
     whole process group: the parent handles it, so the worker ignores SIGINT.
     """
-    import signal
     import sys
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     for name in ("SIGTERM", "SIGHUP"):
         if hasattr(signal, name):
             signal.signal(getattr(signal, name), signal.SIG_DFL)
+    if hasattr(signal, "pthread_sigmask"):  # forked while the parent held them (_held)
+        signal.pthread_sigmask(signal.SIG_UNBLOCK, _HELD)
     armed = False
     if sys.platform.startswith("linux"):
         try:
@@ -465,6 +467,27 @@ def _worker_start(parent: int) -> None:
         threading.Thread(target=watch, daemon=True, name="palettecheck-parent-watch").start()
 
 
+#: The signals the scan answers (see palettecheck.cli): held back while a worker is
+#: forked, because Python runs the parent's at-fork hooks (logging registers
+#: some) with any exception they raise printed and dropped, so a Ctrl-C handled
+#: there would be lost and the scan would run on to the end.
+_HELD = tuple(s for s in (getattr(signal, n, None) for n in ("SIGINT", "SIGTERM", "SIGHUP")) if s)
+
+
+def _submit_held(pool, *args):
+    """``pool.submit(*args)`` (which may fork a worker) with :data:`_HELD` blocked in
+    this thread; a signal that came meanwhile is handled on return, outside the
+    fork's hooks. Threads the pool starts meanwhile inherit the mask, so the
+    signals keep coming to the main thread."""
+    if not hasattr(signal, "pthread_sigmask"):
+        return pool.submit(*args)
+    old = signal.pthread_sigmask(signal.SIG_BLOCK, _HELD)
+    try:
+        return pool.submit(*args)
+    finally:
+        signal.pthread_sigmask(signal.SIG_SETMASK, old)
+
+
 def _in_pool(files: list[str], job: _Job, jobs: int):
     """Results of :func:`_one` from ``jobs`` worker processes, as they finish; at most
     four files per worker are in flight, so the memory held does not grow with the
@@ -483,7 +506,7 @@ def _in_pool(files: list[str], job: _Job, jobs: int):
     pending: dict = {}
     try:
         for f in queue:
-            pending[pool.submit(_one, f, job)] = f
+            pending[_submit_held(pool, _one, f, job)] = f
             if len(pending) >= 4 * jobs:
                 break
         while pending:
@@ -496,7 +519,7 @@ def _in_pool(files: list[str], job: _Job, jobs: int):
                     result = (str(f), None, f"{f}: the worker reading it stopped (out of memory?)")
                 nxt = next(queue, None)
                 if nxt is not None:
-                    pending[pool.submit(_one, nxt, job)] = nxt
+                    pending[_submit_held(pool, _one, nxt, job)] = nxt
                 yield result
     except BaseException:
         # interrupted (Ctrl-C, a signal turned exception): stop now, not after every file
