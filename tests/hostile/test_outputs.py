@@ -269,11 +269,13 @@ def test_a_full_disk_is_reported(run, tmp_path, tiny_disk, one_error):
 
 
 SLOW_WRITE = """
-import sys, time
+import os, sys, time
 import palettecheck.report.write as w
 real = w._fsync
 def slow(path):
-    open(sys.argv[1], "w").write(path)
+    with open(sys.argv[1] + ".part", "w") as f:
+        f.write(path)
+    os.replace(sys.argv[1] + ".part", sys.argv[1])  # never seen empty
     time.sleep(30)
 w._fsync = slow
 from palettecheck.cli import main
@@ -357,6 +359,24 @@ def test_killing_scan_leaves_no_worker(cli, many_charts, sig, children_of, runni
     assert [k for k in kids if running(k)] == []
     if sig == signal.SIGINT:
         assert p.returncode == 2 and err.decode().count("\n") == 1 and b"Traceback" not in err
+
+
+CTRL_C_AT_FORK = """
+import os, signal, sys
+# Ctrl-C arriving exactly while a worker is forked: the parent's at-fork hooks
+# (logging's among them) swallow any exception raised in them, so an interrupt
+# handled there would be lost and the scan would run on to the end
+os.register_at_fork(after_in_parent=lambda: os.kill(os.getpid(), signal.SIGINT))
+from palettecheck.cli import main
+main(sys.argv[1:])
+"""
+
+
+def test_ctrl_c_while_a_worker_is_forked_is_not_lost(many_charts):
+    p = subprocess.run([sys.executable, "-c", CTRL_C_AT_FORK, "scan", str(many_charts), "--jobs", "2"],
+                       capture_output=True, timeout=60)
+    assert p.returncode == 2, p.stderr
+    assert p.stderr.decode().endswith(": interrupted\n") and p.stderr.count(b"\n") == 1, p.stderr
 
 
 def test_jobs_are_capped_at_the_cores(run, charts):
