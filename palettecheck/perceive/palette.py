@@ -117,12 +117,13 @@ def perceive_colors(rgb255, settings: Settings, visions) -> np.ndarray:
 
 
 def pairwise(x: np.ndarray, y: np.ndarray | None = None) -> np.ndarray:
-    """Euclidean distances between the rows of ``x`` (n, 3) and of ``y`` (m, 3),
-    axis by axis so that the temporaries stay (n, m)."""
+    """Euclidean distances between the rows of ``x`` (..., n, 3) and of ``y``
+    (..., m, 3): shape (..., n, m), axis by axis so that the temporaries stay that
+    size (leading axes: a stack of views measured at once)."""
     y = x if y is None else y
-    d2 = np.zeros((len(x), len(y)))
+    d2 = np.zeros((*x.shape[:-1], y.shape[-2]))
     for a in range(x.shape[-1]):
-        diff = x[:, None, a] - y[None, :, a]
+        diff = x[..., :, None, a] - y[..., None, :, a]
         d2 += diff * diff
     return np.sqrt(d2)
 
@@ -134,35 +135,45 @@ def perceive_palette(palette: Palette, settings: Settings) -> Perceived:
     bg = np.array([parse_color(b)[0] for b in settings.backgrounds], dtype=float)
     visions = measured_visions(settings)
     views, ucs_all, stone_all = perceive_views(np.concatenate([rgb, bg]), settings, visions)
-    by_min_delta = settings.by_delta_e
+    sev = np.array([s for _, s in views])
     ucs, delta, fraction, binding, bg_fraction, bg_delta = {}, {}, {}, {}, {}, {}
     for v in visions:
-        ks = [k for k, (w, _) in enumerate(views) if w == v]
-        best_m = best_f = best_d = best_k = None
-        for k in ks:
-            u, z = ucs_all[k], stone_all[k]
-            f, d = pairwise(z[:n]), pairwise(u[:n])
-            m = d if by_min_delta else f
-            if best_m is None:
-                best_m, best_f, best_d, best_k = m, f, d, np.full(m.shape, k)
-            else:
-                better = m < best_m
-                best_m = np.where(better, m, best_m)
-                best_f = np.where(better, f, best_f)
-                best_d = np.where(better, d, best_d)
-                best_k = np.where(better, k, best_k)
-        fraction[v], delta[v] = best_f, best_d
+        ks = np.array([k for k, (w, _) in enumerate(views) if w == v])
+        f, d, k = _most_merged(stone_all, ucs_all, ks, n, settings.by_delta_e)
+        fraction[v], delta[v] = f, d
         if v in CVD_VISIONS:
-            sev = np.array([s for _, s in views])
-            binding[v] = sev[best_k]
+            binding[v] = sev[k]
         ucs[v] = ucs_all[ks[-1]][:n]
         # against the backgrounds, the worst severity colour by colour
-        fb = np.min([pairwise(stone_all[k][:n], stone_all[k][n:]) for k in ks], axis=0)
-        db = np.min([pairwise(ucs_all[k][:n], ucs_all[k][n:]) for k in ks], axis=0)
-        bg_fraction[v], bg_delta[v] = fb, db
+        bg_fraction[v] = pairwise(stone_all[ks, :n], stone_all[ks, n:]).min(axis=0)
+        bg_delta[v] = pairwise(ucs_all[ks, :n], ucs_all[ks, n:]).min(axis=0)
     contrast = contrast_ratio(rgb[:, None, :], bg[None, :, :]) if n else np.zeros((0, len(bg)))
     return Perceived(palette, settings, rgb, ucs, delta, bg, contrast, fraction, binding, bg_fraction, bg_delta,
                      visions, tuple(dict.fromkeys(("normal", *settings.visions))))
+
+
+def _most_merged(stone, ucs, ks, n: int, by_delta_e: bool):
+    """Per pair of the first ``n`` colours, over the views ``ks`` (one vision's
+    severities): the noticeable fraction and ΔE' in the view that merges the pair
+    most (by ΔE' when ``by_delta_e``; the first of equals), and that view's index.
+    Views are measured a stack at a time, at most about 65 000 pairs each (small
+    palettes: every view at once; large ones: a view at a time, in cache)."""
+    step = max(1, (1 << 16) // max(n * n, 1))
+    best = None
+    for c in range(0, len(ks), step):
+        kc = ks[c:c + step]
+        f, d = pairwise(stone[kc, :n]), pairwise(ucs[kc, :n])
+        if len(kc) == 1:
+            f, d, k = f[0], d[0], np.full(f.shape[1:], kc[0])
+        else:
+            at = np.argmin(d if by_delta_e else f, axis=0)[None]
+            f, d, k = np.take_along_axis(f, at, 0)[0], np.take_along_axis(d, at, 0)[0], kc[at[0]]
+        if best is None:
+            best = f, d, k
+            continue
+        better = (d if by_delta_e else f) < (best[1] if by_delta_e else best[0])
+        best = tuple(np.where(better, new, old) for new, old in zip((f, d, k), best))
+    return best
 
 
 def pair_indices(n: int, kind: str) -> list[tuple[int, int]]:
