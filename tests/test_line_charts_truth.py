@@ -142,3 +142,52 @@ def test_thin_lines_in_jpeg_known_limit(tmp_path, case):
     assert reading.colors
     missing, phantoms, kind = judge(reading, truth, 4.0)
     assert not missing and not phantoms and kind == ["line"] * len(truth)
+
+
+def _white_grid(fig):
+    fig.axes[0].grid(True, color="#ffffff", linewidth=1.0)
+    fig.axes[0].set_axisbelow(True)
+    return fig
+
+
+def _on_grey_panel(chart):
+    """A chart of the tests' helpers on a grey panel (#ebebeb) with white grid lines."""
+    if chart.startswith("markers"):
+        fig, truth = panel_scatter(size=float(chart.split("-")[1]))
+        return fig, truth, "point"
+    width, style = {"thin-lines": (0.72, "-"), "lines-1.5pt": (1.5, "-"), "dashed": (1.5, "--")}[chart]
+    fig, truth = thin_lines(width_pt=width, style=style, panel="#ebebeb")
+    return _white_grid(fig), truth, "line"
+
+
+@pytest.mark.parametrize("chart", ["thin-lines", "lines-1.5pt", "dashed", "markers-9"])
+def test_jpeg_on_a_grey_panel_with_white_grid(tmp_path, chart):
+    """A grey plot panel crossed by white grid lines, as JPEG at quality 90:
+    compression noise splits the panel's grey over many codes (about half of the
+    panel keeps the exact grey, under the 30 % a panel needs), so the panel went
+    unnoticed, was reported as grey data, and the lines on it were misread
+    (measured before: thin lines and dashed 0 of 5 found, 1.5 pt lines 4 of 5, with
+    3-4 phantoms over 0.5 %; bench/study_reading.py). The panel is now found as the
+    grey that holds that share together with its noise."""
+    fig, truth, kind = _on_grey_panel(chart)
+    fig.savefig(tmp_path / "c.jpg", pil_kwargs={"quality": 90})
+    reading = palettecheck.read_image(tmp_path / "c.jpg")
+    assert reading.panels and not reading.grey_data, (reading.panels, reading.grey_data)
+    missing, phantoms, kinds = judge(reading, truth, 4.0)
+    assert not missing and not phantoms, (missing, phantoms)
+    if chart == "dashed":  # the others: see the known limit below
+        assert kinds == [kind] * len(truth), kinds
+
+
+# Still not met on the grey panel in JPEG (measured on this branch): two of the five
+# solid thin lines (0.72 and 1.5 pt, the helpers' noisy waves) are read as points, not
+# lines (the mark measure, read/marks.py), and two of the four colours of 9-pt²
+# markers are read as lines (as before this panel fix); 36-pt² markers: 0 of 4 colours
+# found before and after it (a pale phantom such as #3884bd, 1.7 %).
+@pytest.mark.xfail(strict=True, reason="JPEG on a grey panel: mark kinds of thin lines and markers, 36 pt² markers")
+@pytest.mark.parametrize("chart", ["thin-lines", "lines-1.5pt", "markers-9", "markers-36"])
+def test_jpeg_on_a_grey_panel_known_limit(tmp_path, chart):
+    fig, truth, kind = _on_grey_panel(chart)
+    fig.savefig(tmp_path / "c.jpg", pil_kwargs={"quality": 90})
+    missing, phantoms, kinds = judge(palettecheck.read_image(tmp_path / "c.jpg"), truth, 4.0)
+    assert not missing and not phantoms and kinds == [kind] * len(truth)
