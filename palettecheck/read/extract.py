@@ -388,6 +388,16 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
     solid = solid[(chroma[solid] >= NEUTRAL_CHROMA)
                   & (np.sqrt(((jab[solid] - jab[bg]) ** 2).sum(-1)) > 4.0 * radius)]
     vivid_parents = parents[chroma[parents] >= NEUTRAL_CHROMA]
+    if lossy and len(parents):
+        # compression noise around a mark opens groups of its own just beyond the merge
+        # radius (a few hundredths of a percent each); such an echo is no mark, and a
+        # solid bar must not be taken for an overlap of echoes (of itself, or of the
+        # seam with its neighbour): an echo lies within twice the merge radius (the
+        # radius a lossy file's background takes its noise in) of a heavier parent
+        pj = jab[parents]
+        d2 = sum((pj[:, None, i] - pj[None, :, i]) ** 2 for i in range(3))
+        echo = parents[((d2 <= (2.0 * radius) ** 2) & (w[parents][None, :] > w[parents][:, None])).any(axis=1)]
+        solid, vivid_parents = np.setdiff1d(solid, echo), np.setdiff1d(vivid_parents, echo)
     for c in test:
         others = parents[(parents != c) & (flat[parents] > flat[c])]
         strong = np.concatenate(([bg], others))
