@@ -17,6 +17,7 @@ import colorspacious
 import numpy as np
 import pytest
 from helpers import draw, panel_scatter, rgb255, thin_lines
+from matplotlib.figure import Figure
 
 import palettecheck
 
@@ -142,3 +143,96 @@ def test_thin_lines_in_jpeg_known_limit(tmp_path, case):
     assert reading.colors
     missing, phantoms, kind = judge(reading, truth, 4.0)
     assert not missing and not phantoms and kind == ["line"] * len(truth)
+
+
+def _white_grid(fig):
+    fig.axes[0].grid(True, color="#ffffff", linewidth=1.0)
+    fig.axes[0].set_axisbelow(True)
+    return fig
+
+
+def _on_grey_panel(chart):
+    """A chart of the tests' helpers on a grey panel (#ebebeb) with white grid lines."""
+    if chart.startswith("markers"):
+        fig, truth = panel_scatter(size=float(chart.split("-")[1]))
+        return fig, truth, "point"
+    width, style = {"thin-lines": (0.72, "-"), "lines-1.5pt": (1.5, "-"), "dashed": (1.5, "--")}[chart]
+    fig, truth = thin_lines(width_pt=width, style=style, panel="#ebebeb")
+    return _white_grid(fig), truth, "line"
+
+
+@pytest.mark.parametrize("chart", ["thin-lines", "lines-1.5pt", "dashed", "markers-9"])
+def test_jpeg_on_a_grey_panel_with_white_grid(tmp_path, chart):
+    """A grey plot panel crossed by white grid lines, as JPEG at quality 90:
+    compression noise splits the panel's grey over many codes (about half of the
+    panel keeps the exact grey, under the 30 % a panel needs), so the panel went
+    unnoticed, was reported as grey data, and the lines on it were misread
+    (measured before: thin lines and dashed 0 of 5 found, 1.5 pt lines 4 of 5, with
+    3-4 phantoms over 0.5 %; bench/study_reading.py). The panel is now found as the
+    grey that holds that share together with its noise."""
+    fig, truth, kind = _on_grey_panel(chart)
+    fig.savefig(tmp_path / "c.jpg", pil_kwargs={"quality": 90})
+    reading = palettecheck.read_image(tmp_path / "c.jpg")
+    assert reading.panels and not reading.grey_data, (reading.panels, reading.grey_data)
+    missing, phantoms, kinds = judge(reading, truth, 4.0)
+    assert not missing and not phantoms, (missing, phantoms)
+    if chart == "dashed":  # the others: see the known limit below
+        assert kinds == [kind] * len(truth), kinds
+
+
+# Still not met on the grey panel in JPEG (measured on this branch): two of the five
+# solid thin lines (0.72 and 1.5 pt, the helpers' noisy waves) are read as points, not
+# lines (the mark measure, read/marks.py), and two of the four colours of 9-pt²
+# markers are read as lines (as before this panel fix); 36-pt² markers: 0 of 4 colours
+# found before and after it (a pale phantom such as #3884bd, 1.7 %).
+@pytest.mark.xfail(strict=True, reason="JPEG on a grey panel: mark kinds of thin lines and markers, 36 pt² markers")
+@pytest.mark.parametrize("chart", ["thin-lines", "lines-1.5pt", "markers-9", "markers-36"])
+def test_jpeg_on_a_grey_panel_known_limit(tmp_path, chart):
+    fig, truth, kind = _on_grey_panel(chart)
+    fig.savefig(tmp_path / "c.jpg", pil_kwargs={"quality": 90})
+    missing, phantoms, kinds = judge(palettecheck.read_image(tmp_path / "c.jpg"), truth, 4.0)
+    assert not missing and not phantoms and kinds == [kind] * len(truth)
+
+
+#: Invented colours at least ΔE' 20 apart (colorspacious), as bench/study_reading.py uses.
+WIDE = ["#cc3340", "#7a52b3", "#1aa6b0", "#c9a21a", "#d14fa0", "#e8772e"]
+
+
+@pytest.mark.parametrize("chart", ["pie", "stackplot", "bars"])
+def test_jpeg_solid_fills_are_never_overlaps_of_noise(tmp_path, chart):
+    """A solid wedge, layer or bar in a JPEG was dropped as a translucent overlap:
+    compression noise around the marks opens groups of a few hundredths of a percent
+    just beyond the merge radius, and one of them "over" another (or over the mark's
+    own noise) fitted the overlap model (measured before: the red wedge, 4.7 % of the
+    image, read as a pink seam #d6508f over the yellow wedge; the red and orange
+    layers of a stack plot, and the orange bar, each as a pale ringing tint over the
+    mark's own noise; bench/study_reading.py). Such echoes of a heavier colour (within
+    twice the merge radius of it) are no marks now. The kinds are not judged here: a
+    layer 10 px thick where it is thinnest is read as a line (read/marks.py)."""
+    fig = Figure(figsize=(6.4, 4.0), dpi=100)
+    # the bars on a grey panel in a white figure (the panel, under a third of the
+    # image, is a known limit, not judged here: only the drawn colours are)
+    ax = fig.add_subplot(facecolor="#ebebeb" if chart == "bars" else "#ffffff")
+    if chart == "pie":
+        truth = WIDE[:5]
+        ax.pie(np.random.default_rng(31).uniform(1, 3, 5), colors=truth,
+               labels=[f"Store {i + 1}" for i in range(5)])
+    elif chart == "stackplot":
+        truth = ["#1f5fa8", "#e8772e", "#2e9e57", "#cc3340"]
+        rng = np.random.default_rng(40)
+        x = np.linspace(0, 10, 60)
+        ys = [1.5 + np.sin(x / 2 + i * 1.3) + 0.3 * rng.random(x.size) for i in range(4)]
+        ax.stackplot(x, ys, colors=truth, labels=[f"Zone {i + 1}" for i in range(4)])
+        ax.legend(loc="upper left")
+    else:
+        truth = ["#1f5fa8", "#e8772e", "#2e9e57", "#cc3340", "#7a52b3"]
+        ax.grid(True, color="#ffffff")
+        ax.set_axisbelow(True)
+        ax.bar(np.arange(5), np.random.default_rng(10).uniform(3, 9, 5), color=truth,
+               label=[f"Depot {i + 1}" for i in range(5)])
+        ax.legend()
+    fig.savefig(tmp_path / "c.jpg", pil_kwargs={"quality": 90})
+    reading = palettecheck.read_image(tmp_path / "c.jpg")
+    missing, phantoms, _ = judge(reading, truth, 4.0)
+    assert not missing, missing
+    assert not [h for h, _ in phantoms if h not in dict(reading.grey_data)], phantoms

@@ -97,3 +97,24 @@ def test_stylesheet_svg_marks(tmp_path):
     assert marks["#7b5ea7"] == ("area", pytest.approx(30.0))  # the narrow side of the bars
     # judged for its smallest mark: a 2.5 px line (a point is larger in visual angle)
     assert check_image(reading).result.settings.mark == "line"
+
+
+def test_grey_scatter_with_face_coloured_edges_is_grey_data(tmp_path):
+    """matplotlib draws a scatter marker's edge in its face colour by default
+    (``edgecolors="face"``, 1 pt wide; V: matplotlib's ``scatter`` documentation and
+    ``scatter.edgecolors`` in its default matplotlibrc). That outline lies inside the
+    rendered disc, so a grey context series of such markers is data, as the same
+    chart read from PNG says; before, the outline counted as edge, the grey held
+    too little flat fill and was taken for furniture (study_reading: highlight+grey)."""
+    fig = Figure(figsize=(6.4, 4.0), dpi=100)
+    ax = fig.add_subplot()
+    rng = np.random.default_rng(82)
+    ax.scatter(rng.normal(0, 1, 300), rng.normal(0, 1, 300), s=36.0, color="#999999", label="Other towns")
+    ax.scatter(rng.normal(1, 0.5, 40), rng.normal(1, 0.5, 40), s=36.0, color="#1aa6b0", label="Ridgeport")
+    ax.legend()
+    reading, marks = saved_svg(fig, tmp_path / "h.svg")
+    assert [h for h, _ in reading.grey_data] == ["#999999"] and [h for h, _ in reading.colors] == ["#1aa6b0"]
+    # the diameter is sqrt(s) pt plus the 1 pt outline (C: matplotlib's scatter docs)
+    assert marks["#999999"] == ("point", pytest.approx((6.0 + 1.0) * PX_PER_PT, rel=0.05))
+    fig.savefig(tmp_path / "h.png")
+    assert [h for h, _ in palettecheck.read_image(tmp_path / "h.png").grey_data] == ["#999999"]

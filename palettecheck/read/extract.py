@@ -93,6 +93,10 @@ THREE_WAY_TOLERANCE = 1.5
 #: default axes face covers 55-75 % of a figure; data bars rarely a third of it).
 PANEL_MIN_AREA = 0.3
 PANEL_MIN_FLAT = 0.8
+#: In a lossy file, a grey holding at least this share of the image on its own is
+#: a candidate centre of the panel (practical choice: the exact panel grey of a JPEG
+#: at quality 90 keeps a fifth of the image or more; this only bounds the work).
+PANEL_NOISE_SEED = 0.01
 #: A grey is data (bars, areas) rather than furniture (text, axes, grid) when it
 #: covers at least this share of the non-background pixels, nearly all of it in
 #: flat fill, and stands apart from the page (practical choice, no source: text
@@ -253,14 +257,34 @@ def find_background(counts: ColorCounts, fallback, viewing=SRGB_VIEWING) -> tupl
     return rgb[int(np.argmax(cw))], "detected"
 
 
-def find_panel(w: np.ndarray, flat: np.ndarray, chroma: np.ndarray, bg: int, area: float | None = None):
+def find_panel(w: np.ndarray, flat: np.ndarray, chroma: np.ndarray, bg: int, area: float | None = None,
+               jab: np.ndarray | None = None):
     """Index of the plot panel among distinct colours (or None): a grey other than
     the page covering ``PANEL_MIN_AREA`` of the image (``area``: the canvas of a
     vector file, whose weights do not add up to it), ``PANEL_MIN_FLAT`` of it in
-    flat fill."""
+    flat fill.
+
+    ``jab`` (CAM02-UCS of each colour; lossy files): compression noise splits the
+    panel's grey into many codes, none of which holds that share (a JPEG of a grey
+    panel crossed by white grid lines keeps about half of its panel in the exact
+    grey), so each grey counts with the colours within ``DEFAULT_MERGE_RADIUS`` of
+    it; of the greys that reach the panel's share so, the one holding most pixels
+    itself (the exact grey the panel was drawn with) is the panel."""
     total = float(w.sum()) if area is None else float(area)
-    ok = (w >= PANEL_MIN_AREA * total) & (flat >= PANEL_MIN_FLAT * w) & (chroma < NEUTRAL_CHROMA)
-    ok[bg] = False
+    grey = chroma < NEUTRAL_CHROMA
+    grey[bg] = False
+    if jab is not None:
+        cand = np.flatnonzero(grey & (w >= PANEL_NOISE_SEED * total))
+        if not len(cand):
+            return None
+        gj, gw, gf = jab[grey], w[grey], flat[grey]
+        w_near, flat_near = np.zeros(len(cand)), np.zeros(len(cand))
+        for k, c in enumerate(cand):  # one pass over the greys per candidate (a few): memory stays linear
+            near = sq_norm(gj - jab[c]) <= DEFAULT_MERGE_RADIUS ** 2
+            w_near[k], flat_near[k] = gw[near].sum(), gf[near].sum()
+        ok = (w_near >= PANEL_MIN_AREA * total) & (flat_near >= PANEL_MIN_FLAT * w_near)
+        return int(cand[np.argmax(np.where(ok, w[cand], -1.0))]) if ok.any() else None
+    ok = (w >= PANEL_MIN_AREA * total) & (flat >= PANEL_MIN_FLAT * w) & grey
     return int(np.argmax(np.where(ok, w, -1.0))) if ok.any() else None
 
 
@@ -364,6 +388,16 @@ def _blends(rgb, jab, w, flat, chroma, bg: int, tol: float, lossy: bool, test, p
     solid = solid[(chroma[solid] >= NEUTRAL_CHROMA)
                   & (np.sqrt(((jab[solid] - jab[bg]) ** 2).sum(-1)) > 4.0 * radius)]
     vivid_parents = parents[chroma[parents] >= NEUTRAL_CHROMA]
+    if lossy and len(parents):
+        # compression noise around a mark opens groups of its own just beyond the merge
+        # radius (a few hundredths of a percent each); such an echo is no mark, and a
+        # solid bar must not be taken for an overlap of echoes (of itself, or of the
+        # seam with its neighbour): an echo lies within twice the merge radius (the
+        # radius a lossy file's background takes its noise in) of a heavier parent
+        pj = jab[parents]
+        d2 = sum((pj[:, None, i] - pj[None, :, i]) ** 2 for i in range(3))
+        echo = parents[((d2 <= (2.0 * radius) ** 2) & (w[parents][None, :] > w[parents][:, None])).any(axis=1)]
+        solid, vivid_parents = np.setdiff1d(solid, echo), np.setdiff1d(vivid_parents, echo)
     for c in test:
         others = parents[(parents != c) & (flat[parents] > flat[c])]
         strong = np.concatenate(([bg], others))
@@ -483,7 +517,7 @@ def extract(counts: ColorCounts, fallback_background=(255.0, 255.0, 255.0), *, s
     canvas = None
     if counts.exact:
         canvas = float(counts.size[0] * counts.size[1]) if counts.size else np.inf
-    panel_i = find_panel(w, flat, chroma_all, bg_i, canvas)
+    panel_i = find_panel(w, flat, chroma_all, bg_i, canvas, jab if counts.lossy else None)
     flat_drawn = flat.copy()  # before tints are moved to their marks: what each colour holds itself
     if panel_i is not None and viewing_of(rgb[panel_i]) != viewing:  # the marks are seen on the panel
         viewing = viewing_of(rgb[panel_i])

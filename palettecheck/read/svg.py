@@ -21,7 +21,9 @@ Weights: a fill counts with its area (rectangles and ellipses exactly, paths and
 polygons by the shoelace area of their points, control points included), a stroke
 with its outline length times its width, text with its glyph count times the square
 of its size (all after transforms). Fills are reported as flat fill, strokes and
-text as edges (as the raster reader tells runs of equal pixels from edges). The background is the first opaque fill
+text as edges (as the raster reader tells runs of equal pixels from edges), but for
+a stroke in its shape's own fill paint (a marker's or a bar's edge in its face
+colour), which is flat fill too. The background is the first opaque fill
 covering nearly all of the canvas; without one the given background is used.
 
 Marks: each paint records what it draws, from the shape's extent under its
@@ -496,7 +498,10 @@ class _Painter:
         stroke = self.paint_value(style.get("stroke", "none"), style, _opacity(style.get("stroke-opacity")))
         fill_mark, stroke_mark = self.mark_of(el, tag, m, bool(fill), width if stroke else 0.0)
         self.add(fill, area, opacity, mark=fill_mark)
-        self.add(stroke, length * width, opacity, fill=False, mark=stroke_mark)
+        # an outline in the fill's own paint (a scatter marker's or a bar's edge, drawn
+        # in its face colour) widens that fill: rendered, it is inside the mark, not an edge
+        own = bool(fill) and [tuple(map(float, p)) for p, _ in stroke] == [tuple(map(float, p)) for p, _ in fill]
+        self.add(stroke, length * width, opacity, fill=own, mark=stroke_mark)
 
     def geometry(self, el, tag, m):
         """(area, outline length) of a shape under ``m``; the shape's own geometry
