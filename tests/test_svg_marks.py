@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from helpers import draw
+from helpers import draw, panel_scatter
 from matplotlib.figure import Figure
 
 import palettecheck
@@ -118,3 +118,18 @@ def test_grey_scatter_with_face_coloured_edges_is_grey_data(tmp_path):
     assert marks["#999999"] == ("point", pytest.approx((6.0 + 1.0) * PX_PER_PT, rel=0.05))
     fig.savefig(tmp_path / "h.png")
     assert [h for h, _ in palettecheck.read_image(tmp_path / "h.png").grey_data] == ["#999999"]
+
+
+@pytest.mark.parametrize("panel", ["#ebebeb", "#ffffff"])
+def test_glyphs_of_matplotlib_text_are_furniture_not_grey_data(tmp_path, panel):
+    """matplotlib writes text as glyph outlines (``svg.fonttype`` "path", its
+    default: V, matplotlibrc) filled in the text colour, inside a group it names
+    ``text_<n>`` (V: read in the files it writes here). Filled, they looked like
+    flat grey fill: beside small markers on a frameless panel the tick labels and
+    title (#000000) were reported as grey data at about half of the marks. They are
+    text: edges, furniture, as a ``<text>`` element is."""
+    fig, truth = panel_scatter(size=9.0, panel=panel)
+    reading, marks = saved_svg(fig, tmp_path / "c.svg")
+    assert reading.grey_data == (), reading.grey_data
+    assert "#000000" in [h for h, _ in reading.neutrals]
+    assert sorted(marks) == sorted(truth) and {k for k, _ in marks.values()} == {"point"}

@@ -21,7 +21,8 @@ Weights: a fill counts with its area (rectangles and ellipses exactly, paths and
 polygons by the shoelace area of their points, control points included), a stroke
 with its outline length times its width, text with its glyph count times the square
 of its size (all after transforms). Fills are reported as flat fill, strokes and
-text as edges (as the raster reader tells runs of equal pixels from edges), but for
+text as edges -- ``<text>`` elements, and the glyph outlines matplotlib draws inside
+its ``text_<n>`` groups -- (as the raster reader tells runs of equal pixels from edges), but for
 a stroke in its shape's own fill paint (a marker's or a bar's edge in its face
 colour), which is flat fill too. The background is the first opaque fill
 covering nearly all of the canvas; without one the given background is used.
@@ -83,6 +84,10 @@ MAX_SVG_SECONDS = 8.0
 
 _NS = "{http://www.w3.org/2000/svg}"
 _XLINK = "{http://www.w3.org/1999/xlink}href"
+#: The group matplotlib writes each text into (``text_<n>``; V: read in the SVG files
+#: it writes, whose glyphs are outlines in ``<defs>`` drawn by ``<use>``, with
+#: ``svg.fonttype: path``, its default): what is drawn inside is text.
+_TEXT_GROUP = re.compile(r"text_\d+")
 _SHAPES = {"rect", "circle", "ellipse", "path", "polygon", "polyline", "line", "text", "image"}
 _SKIP = {"defs", "clipPath", "mask", "marker", "symbol", "pattern", "linearGradient", "radialGradient",
          "title", "desc", "metadata", "style", "script", "filter", "foreignObject"}
@@ -435,11 +440,12 @@ class _Painter:
             raise _error(self.path, f"refused: reading took more than {MAX_SVG_SECONDS:g} s "
                                     f"(limit MAX_SVG_SECONDS)")
 
-    def walk(self, el, inherited, m, opacity, uses=()):
+    def walk(self, el, inherited, m, opacity, uses=(), text=False):
         tag = _tag(el)
         if tag in _SKIP:
             return
         self.tick()
+        text = text or (tag == "g" and _TEXT_GROUP.fullmatch(el.get("id") or "") is not None)
         own = self.cascade.own(el)
         if own.get("display", "").strip() == "none":
             return
@@ -466,16 +472,16 @@ class _Painter:
             t = _IDENTITY
             if _tag(ref) == "symbol":
                 for child in ref:
-                    self.walk(child, style, m @ t, opacity, uses + (href,))
+                    self.walk(child, style, m @ t, opacity, uses + (href,), text)
             else:
-                self.walk(ref, style, m @ t, opacity, uses + (href,))
+                self.walk(ref, style, m @ t, opacity, uses + (href,), text)
             return
         if tag in _SHAPES and style.get("visibility", "visible") not in ("hidden", "collapse"):
-            self.shape(el, tag, style, m, opacity)
+            self.shape(el, tag, style, m, opacity, text)
         for child in el:
-            self.walk(child, style, m, opacity, uses)
+            self.walk(child, style, m, opacity, uses, text)
 
-    def shape(self, el, tag, style, m, opacity):
+    def shape(self, el, tag, style, m, opacity, text=False):
         if tag == "image":
             self.image(el, m, opacity)
             return
@@ -496,6 +502,9 @@ class _Painter:
             return
         width = _length(style.get("stroke-width"), 1.0) * math.sqrt(_scale_of(m)[0])
         stroke = self.paint_value(style.get("stroke", "none"), style, _opacity(style.get("stroke-opacity")))
+        if text:  # glyph outlines: edges, as a <text> element's paint
+            self.add(fill + stroke, area, opacity, fill=False, mark=("text", 0.0))
+            return
         fill_mark, stroke_mark = self.mark_of(el, tag, m, bool(fill), width if stroke else 0.0)
         self.add(fill, area, opacity, mark=fill_mark)
         # an outline in the fill's own paint (a scatter marker's or a bar's edge, drawn
