@@ -92,6 +92,31 @@ def test_bars_and_wedges_are_areas(tmp_path, kind):
     assert all(found[c][0] == "area" for c in truth), found
 
 
+@pytest.mark.parametrize("seed", [0, 1, 2])
+@pytest.mark.parametrize("fmt", ["png", "jpg"])
+def test_jagged_stacked_areas_are_areas(tmp_path, seed, fmt):
+    """A stackplot of noisy layers (6.4 x 4 in at 100 dpi, every layer 15 px thick or
+    more, measured on the drawn data): along the rows, a layer's jagged top edge is
+    many short teeth, whose median run (10 px) made a thick layer read as a line.
+    What a layer's pixels lie in (the median run weighted by its pixels) is long both
+    ways."""
+    from matplotlib.figure import Figure
+
+    rng = np.random.default_rng(40 + seed)
+    x = np.linspace(0, 10, 60)
+    colours = ["#1f5fa8", "#e8772e", "#2e9e57", "#cc3340"]  # invented
+    ys = [1.5 + np.sin(x / 2 + i * 1.3) + 0.3 * rng.random(x.size) for i in range(4)]
+    fig = Figure(figsize=(6.4, 4.0), dpi=100)
+    ax = fig.add_subplot()
+    ax.stackplot(x, ys, colors=colours, labels=[f"Zone {i + 1}" for i in range(4)])
+    ax.legend(loc="upper left")
+    fig.savefig(tmp_path / f"a.{fmt}")
+    found = marks(tmp_path / f"a.{fmt}")
+    near = {c: min(found, key=lambda h: sum((int(h[k:k + 2], 16) - int(c[k:k + 2], 16)) ** 2 for k in (1, 3, 5)))
+            for c in colours}
+    assert all(found[near[c]][0] == "area" for c in colours), found
+
+
 @pytest.mark.parametrize("kind, mark", [("line", "line"), ("bar", "area"), ("pie", "area"), ("scatter", "point")])
 def test_the_chart_mark_is_its_smallest_data_mark(tmp_path, kind, mark):
     fig, bg, fg, truth = draw(kind, "light")
