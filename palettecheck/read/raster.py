@@ -108,10 +108,11 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
         flag = None
     elif loose:
         # a step of more than ``loose`` can only fall where the value changes, at a run's
-        # start: compared there alone (a few % of a chart's pixels), so every loose run
-        # is a whole number of exact runs and each run's flag is its loose run's
-        cur, prev = values[starts[1:]], values[starts[1:] - 1]
-        a, b = cur.view(np.uint8).reshape(-1, 4), prev.view(np.uint8).reshape(-1, 4)
+        # start: compared there alone (a few % of a chart's pixels; the pixel before a
+        # run is its previous run's value), so every loose run is a whole number of
+        # exact runs and each run's flag is its loose run's
+        run_vals = values[starts]
+        a, b = run_vals[1:].view(np.uint8).reshape(-1, 4), run_vals[:-1].view(np.uint8).reshape(-1, 4)
         step = np.maximum(a, b)  # |a - b| per channel on uint8 without widening
         step -= np.minimum(a, b)
         cut = np.empty(starts.size, dtype=bool)  # runs that open a loose run
