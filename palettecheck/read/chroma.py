@@ -26,6 +26,7 @@ on the image. Thresholds are practical choices, no source.
 from __future__ import annotations
 
 import numpy as np
+from numpy.lib.stride_tricks import sliding_window_view
 
 __all__ = ["thin_marks", "YCC"]
 
@@ -104,8 +105,11 @@ def _crossings(lines: np.ndarray, base: np.ndarray, band: np.ndarray | None = No
     core = np.add.reduceat(np.abs(px[:, 0]) > OFF_Y, first).astype(float)  # pixels off the base in luma
     lo = np.minimum.reduceat(px[:, 0], first).astype(float) + b[0]
     hi = np.maximum.reduceat(px[:, 0], first).astype(float) + b[0]
-    ok = np.abs(d) >= MIN_DEFICIT
-    if band is not None:
+    ok = np.abs(d) >= MIN_DEFICIT  # (the others are dropped before the band is read)
+    starts, size, d, s, lo, hi, core = starts[ok], size[ok], d[ok], s[ok], lo[ok], hi[ok], core[ok]
+    if band is None or not len(d):
+        ratio = s / np.where(np.abs(d) > 0, d, 1.0)[:, None]
+    else:
         # each side line's window widened by its distance from the line, so that a
         # slanting mark (up to 45 degrees) stays inside it
         nb, length = band.shape[1], band.shape[2]
@@ -113,18 +117,21 @@ def _crossings(lines: np.ndarray, base: np.ndarray, band: np.ndarray | None = No
         li, x0 = np.divmod(starts, length)
         a = np.maximum(x0[:, None] - off[None, :], 0)  # (n, nb)
         z = np.minimum(x0[:, None] + size[:, None] + off[None, :], length)
-        j = np.arange(int((z - a).max()))
-        at = a[..., None] + j  # (n, nb, width)
-        inside = at < z[..., None]
-        vals = band[li[:, None, None], np.arange(nb)[None, :, None], np.minimum(at, length - 1)]
-        bb = vals.view(np.uint8).reshape(*vals.shape, 4)[..., :3].astype(np.int32) - np.asarray(b, dtype=np.int32)
-        bsum = (bb * inside[..., None]).sum((1, 2)).astype(float)
+        width = int((z - a).max())  # at most the length (0 <= a, z <= length)
+        a0 = np.minimum(a, length - width)  # each window read as ``width`` pixels from here
+        j = np.arange(width)
+        inside = (j >= (a - a0)[..., None]) & (j < (z - a0)[..., None])  # (n, nb, width)
+        vals = sliding_window_view(band, width, axis=2)[li[:, None], np.arange(nb)[None, :], a0]
+        vals *= inside  # outside the window: 0 in every channel
+        vals = vals.reshape(len(d), -1)
+        # each channel's sum taken on the packed pixels (no (n, nb, width, 3) widening), less the base's
+        bsum = np.stack([((vals >> np.uint32(8 * c)) & np.uint32(255)).sum(1) for c in range(3)], 1).astype(np.int64)
+        bsum -= (z - a).sum(1)[:, None] * np.asarray(b, dtype=np.int64)
+        bsum = bsum.astype(float)
         d2 = -bsum[:, 0]
-        ok &= (np.abs(d2) >= MIN_DEFICIT) & (np.sign(d2) == np.sign(d))
-        ratio = bsum[:, 1:] / np.where(np.abs(d2) > 0, d2, 1.0)[:, None]
-    else:
-        ratio = s / np.where(np.abs(d) > 0, d, 1.0)[:, None]
-    d, ratio, lo, hi, core = d[ok], ratio[ok], lo[ok], hi[ok], core[ok]
+        ok = (np.abs(d2) >= MIN_DEFICIT) & (np.sign(d2) == np.sign(d))
+        ratio = bsum[ok, 1:] / np.where(np.abs(d2[ok]) > 0, d2[ok], 1.0)[:, None]
+        d, lo, hi, core = d[ok], lo[ok], hi[ok], core[ok]
     return ratio, d, np.where(d > 0, lo, hi), core
 
 
