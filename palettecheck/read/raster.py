@@ -104,6 +104,7 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
     lengths = np.empty(starts.size, dtype=np.int64)
     np.subtract(starts[1:], starts[:-1], out=lengths[:-1])
     lengths[-1] = values.size - starts[-1]
+    run_vals = values[starts]
     if not flat_run:
         flag = None
     elif loose:
@@ -111,7 +112,6 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
         # start: compared there alone (a few % of a chart's pixels; the pixel before a
         # run is its previous run's value), so every loose run is a whole number of
         # exact runs and each run's flag is its loose run's
-        run_vals = values[starts]
         a, b = run_vals[1:].view(np.uint8).reshape(-1, 4), run_vals[:-1].view(np.uint8).reshape(-1, 4)
         step = np.maximum(a, b)  # |a - b| per channel on uint8 without widening
         step -= np.minimum(a, b)
@@ -123,7 +123,7 @@ def count_runs(values: np.ndarray, flat_run: int = 0, loose: int = 0):
         flag = np.repeat(qlen >= flat_run, np.diff(np.append(qstarts, starts.size)))
     else:
         flag = lengths >= flat_run
-    key = values[starts].astype(np.uint64)
+    key = run_vals.astype(np.uint64)
     key <<= np.uint64(32)
     key |= lengths.view(np.uint64)
     if flag is not None:
