@@ -301,17 +301,18 @@ def _group(jab: np.ndarray, w: np.ndarray, radius: float, first: int, seed_min: 
     able = np.flatnonzero(w >= seed_min)
     able = able[able != first]
     order = np.concatenate(([first], able[np.argsort(-w[able], kind="stable")]))
+    # a candidate opens a group unless an open one is near: each group that opens marks
+    # the candidates near it at once (one pass per group, not one per candidate)
+    cand = order[1:max_seeds]
+    cj = jab[cand]
+    blocked = to_first[cand] | (np.sqrt(sq_norm(cj - jab[first])) <= max(radius, first_radius))
     seeds = [first]
-    centres = np.empty((len(order), jab.shape[-1]))
-    centres[0] = jab[first]
-    for i in order[1:max_seeds]:
-        if to_first[i]:
+    for k in range(len(cand)):
+        if blocked[k]:
             continue
-        d = np.sqrt(sq_norm(centres[:len(seeds)] - jab[i]))
-        if d.min() > radius and d[0] > first_radius:
-            centres[len(seeds)] = jab[i]
-            seeds.append(int(i))
-    centres = centres[:len(seeds)]
+        seeds.append(int(cand[k]))
+        blocked[k + 1:] |= np.sqrt(sq_norm(cj[k + 1:] - cj[k])) <= radius
+    centres = jab[seeds]
     group = np.full(len(jab), -1)
     live = np.flatnonzero(w > 0)  # colours emptied (tints moved to their marks) join no group
     near, best = _nearest(jab[live], centres)
