@@ -211,7 +211,7 @@ def test_jpeg_solid_fills_are_never_overlaps_of_noise(tmp_path, chart):
     layer 10 px thick where it is thinnest is read as a line (read/marks.py)."""
     fig = Figure(figsize=(6.4, 4.0), dpi=100)
     # the bars on a grey panel in a white figure (the panel, under a third of the
-    # image, is a known limit, not judged here: only the drawn colours are)
+    # image, is found by the marks covering it: tests/test_panels.py judges it)
     ax = fig.add_subplot(facecolor="#ebebeb" if chart == "bars" else "#ffffff")
     if chart == "pie":
         truth = WIDE[:5]
