@@ -395,6 +395,8 @@ def cell(rs) -> str:
 
 
 def counts(rs) -> str:
+    if not rs:
+        return "none"
     if "cont" in rs[0]:
         n = sum(r["n"] for r in rs)
         return (f"continuous {sum(r['cont'] for r in rs)}/{n}, ends {sum(r['ends'] for r in rs)}/{n}, "
