@@ -236,3 +236,31 @@ def test_jpeg_solid_fills_are_never_overlaps_of_noise(tmp_path, chart):
     missing, phantoms, _ = judge(reading, truth, 4.0)
     assert not missing, missing
     assert not [h for h, _ in phantoms if h not in dict(reading.grey_data)], phantoms
+
+
+@pytest.mark.parametrize("panel", ["#ebebeb", "#ffffff"])
+def test_jpeg_noise_does_not_split_one_marker_colour_in_two(tmp_path, panel):
+    """Discs 6 pt across (matplotlib's default scatter size) saved as JPEG at quality
+    90: 4:2:0 chroma over a small purple disc split it into two or three colours 3-4
+    ΔE' apart (just over the merge radius), each reported as data, so a check would
+    find two purples hard to tell apart that the author never drew. Each drawn
+    colour is reported once, within ΔE' 4 (colorspacious), as points."""
+    from matplotlib.figure import Figure
+
+    colours = ["#1f5fa8", "#e8772e", "#2e9e57", "#cc3340", "#7a52b3"]  # invented
+    fig = Figure(figsize=(6.4, 4.0), dpi=100)
+    ax = fig.add_subplot(facecolor=panel)
+    if panel != "#ffffff":
+        ax.grid(True, color="#ffffff")
+        ax.set_axisbelow(True)
+    rng = np.random.default_rng(60)
+    for i, c in enumerate(colours):
+        ax.scatter(rng.normal(i, 0.9, 50), rng.normal(i % 2, 0.8, 50), s=36.0, color=c, label=f"Batch {i + 1}")
+    ax.legend()
+    fig.savefig(tmp_path / "s.jpg", pil_kwargs={"quality": 90})
+    reading = palettecheck.read_image(tmp_path / "s.jpg")
+    missing, phantoms, kinds = judge(reading, colours, 4.0)
+    assert not missing and not phantoms and kinds == ["point"] * len(colours), (missing, phantoms, kinds)
+    d = delta_cs(colours, [h for h, _ in reading.colors])
+    nearest = np.argmin(d, axis=0)
+    assert sorted(nearest.tolist()) == list(range(len(colours))), reading.colors

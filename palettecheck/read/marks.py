@@ -38,7 +38,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["scan_step", "scan_runs", "measure_marks", "AREA_MIN_PX", "AREA_MIN_SHARE", "LINE_ELONGATION"]
+__all__ = ["scan_step", "scan_runs", "measure_marks", "touching", "AREA_MIN_PX", "AREA_MIN_SHARE", "LINE_ELONGATION"]
 
 #: A mark at least this wide across (pixels, and share of the image's short side) is an area.
 AREA_MIN_PX = 8.0
@@ -239,3 +239,20 @@ def _by_label(lab, pix, cov, n_labels: int):
     lab, pix, cov = lab[order], pix[order], cov[order]
     cuts = np.searchsorted(lab, np.arange(n_labels + 1))
     return [(pix[cuts[k]:cuts[k + 1]], cov[cuts[k]:cuts[k + 1]]) for k in range(n_labels)]
+
+
+def touching(scanlines, label: np.ndarray, n_labels: int):
+    """How often runs of two labels meet along the sampled lines, ``(n, n)``
+    (symmetric), and how many runs each label has, ``(n,)``. ``label``: per
+    distinct colour, its data colour (-1: none)."""
+    meet = np.zeros((n_labels, n_labels))
+    runs = np.zeros(n_labels)
+    if scanlines is None:
+        return meet, runs
+    for idx, _, row in scanlines[:2]:
+        lab = label[idx] if len(idx) else np.zeros(0, dtype=int)
+        runs += np.bincount(lab[lab >= 0], minlength=n_labels)[:n_labels]
+        a, b = lab[:-1], lab[1:]
+        at = (a >= 0) & (b >= 0) & (a != b) & (row[:-1] == row[1:])
+        np.add.at(meet, (a[at], b[at]), 1.0)
+    return meet + meet.T, runs
