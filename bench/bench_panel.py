@@ -14,13 +14,12 @@ repeats, so every side sees the same machine load.
 
 from __future__ import annotations
 
-import statistics
 import sys
 import tempfile
-import time
 from pathlib import Path
 
 import numpy as np
+from bench_scan import interleaved  # medians of interleaved repeats, as every bench here
 
 PALETTE = ["#1b6ca8", "#e07b39", "#3a9d5d", "#c8414b"]  # invented
 PANEL_STYLE = {
@@ -52,16 +51,6 @@ def draw(folder: Path) -> list[Path]:
     fig.savefig(paths[0])
     fig.savefig(paths[1], pil_kwargs={"quality": 90})
     return paths
-
-
-def interleaved(fns, repeats: int) -> list[float]:
-    times = [[] for _ in fns]
-    for _ in range(repeats):
-        for k, fn in enumerate(fns):
-            t = time.perf_counter()
-            fn()
-            times[k].append(time.perf_counter() - t)
-    return [statistics.median(t) for t in times]
 
 
 def main() -> int:
